@@ -1,0 +1,70 @@
+//! Storage: one SQLite database through sqlx. Query modules are split by aggregate; none of
+//! them knows about HTTP. Quantities are stored in SI columns named with their unit.
+
+use sqlx::SqlitePool;
+use sqlx::sqlite::{SqliteConnectOptions, SqliteJournalMode, SqlitePoolOptions, SqliteSynchronous};
+use std::path::Path;
+use std::str::FromStr;
+use std::time::Duration;
+
+/// The pool type used across the storage layer.
+pub type Db = SqlitePool;
+
+/// The migrations in `migrations/`, compiled into the binary.
+pub static MIGRATOR: sqlx::migrate::Migrator = sqlx::migrate!("./migrations");
+
+/// Opens (creating if needed) the database at `path`: WAL journal, foreign keys on,
+/// a busy timeout, and full fsync on commit so that an acknowledged write survives a crash.
+pub async fn connect(path: &Path) -> Result<Db, sqlx::Error> {
+    let options = SqliteConnectOptions::from_str(&format!("sqlite://{}", path.display()))?
+        .create_if_missing(true)
+        .journal_mode(SqliteJournalMode::Wal)
+        .synchronous(SqliteSynchronous::Full)
+        .foreign_keys(true)
+        .busy_timeout(Duration::from_secs(10));
+    SqlitePoolOptions::new()
+        .max_connections(8)
+        .min_connections(1)
+        .connect_with(options)
+        .await
+}
+
+/// Opens the database and applies every pending migration.
+pub async fn open(path: &Path) -> Result<Db, sqlx::Error> {
+    let db = connect(path).await?;
+    MIGRATOR.run(&db).await?;
+    Ok(db)
+}
+
+/// Writes a consistent copy of the live database to `out` (SQLite `VACUUM INTO`), safe while
+/// the server is writing. Refuses to overwrite an existing file.
+pub async fn backup(db: &Db, out: &Path) -> Result<(), sqlx::Error> {
+    if out.exists() {
+        return Err(sqlx::Error::Protocol(format!(
+            "{} already exists; choose a new file name",
+            out.display()
+        )));
+    }
+    sqlx::query("VACUUM INTO ?")
+        .bind(out.display().to_string())
+        .execute(db)
+        .await?;
+    Ok(())
+}
+
+/// True once the database answers a trivial query.
+pub async fn ping(db: &Db) -> bool {
+    sqlx::query_scalar::<_, i64>("SELECT 1")
+        .fetch_one(db)
+        .await
+        .is_ok()
+}
+
+/// The current UTC time as RFC 3339, the form timestamps are stored in.
+pub fn now_rfc3339() -> String {
+    time::OffsetDateTime::now_utc()
+        .replace_nanosecond(0)
+        .unwrap_or_else(|_| time::OffsetDateTime::now_utc())
+        .format(&time::format_description::well_known::Rfc3339)
+        .unwrap_or_default()
+}

@@ -1,0 +1,192 @@
+//! The `loadhold` command: serve, demo, seed-demo, migrate, backup.
+
+use clap::{Parser, Subcommand};
+use loadhold::{app, db};
+use std::net::SocketAddr;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+use tokio::net::TcpListener;
+
+#[derive(Parser)]
+#[command(
+    name = "loadhold",
+    version,
+    about = "Registry and engineering core for a fleet's hydraulic cylinders and hoses"
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Serve the API and pages.
+    Serve {
+        #[arg(long, env = "LOADHOLD_DB", default_value = "loadhold.sqlite")]
+        db: PathBuf,
+        #[arg(long, env = "LOADHOLD_ADDR", default_value = "127.0.0.1:8080")]
+        addr: SocketAddr,
+    },
+    /// Load the demo fleet into a fresh database and serve it.
+    Demo {
+        #[arg(long, env = "LOADHOLD_DB", default_value = "loadhold-demo.sqlite")]
+        db: PathBuf,
+        #[arg(long, env = "LOADHOLD_ADDR", default_value = "127.0.0.1:8080")]
+        addr: SocketAddr,
+    },
+    /// Load the demo fleet (or a generated fleet of N machines) into a database.
+    SeedDemo {
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+        /// Generate N machines with about 4 cylinders and 6 hoses each and five years of history.
+        #[arg(long)]
+        scale: Option<u32>,
+    },
+    /// Apply pending migrations and exit.
+    Migrate {
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
+    /// Write a consistent copy of a live database to OUT.
+    Backup {
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+        out: PathBuf,
+    },
+}
+
+fn main() -> ExitCode {
+    init_tracing();
+    let runtime = match tokio::runtime::Runtime::new() {
+        Ok(runtime) => runtime,
+        Err(error) => {
+            eprintln!("loadhold: cannot start the runtime: {error}");
+            return ExitCode::FAILURE;
+        }
+    };
+    match runtime.block_on(run(Cli::parse().command)) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(message) => {
+            eprintln!("loadhold: {message}");
+            ExitCode::FAILURE
+        }
+    }
+}
+
+fn init_tracing() {
+    use tracing_subscriber::EnvFilter;
+    let filter = EnvFilter::try_from_env("LOADHOLD_LOG")
+        .unwrap_or_else(|_| EnvFilter::new("info,sqlx=warn,tower_http=warn"));
+    let builder = tracing_subscriber::fmt()
+        .with_env_filter(filter)
+        .with_writer(std::io::stderr);
+    if std::env::var("LOADHOLD_LOG_FORMAT").as_deref() == Ok("json") {
+        builder.json().init();
+    } else {
+        builder.init();
+    }
+}
+
+async fn open(path: &Path) -> Result<db::Db, String> {
+    db::open(path)
+        .await
+        .map_err(|e| format!("cannot open database {}: {e}", path.display()))
+}
+
+async fn run(command: Command) -> Result<(), String> {
+    match command {
+        Command::Serve { db, addr } => {
+            let pool = open(&db).await?;
+            serve(pool, addr, None).await
+        }
+        Command::Demo { db, addr } => {
+            remove_database(&db)?;
+            let pool = open(&db).await?;
+            let report = loadhold::seed::load_demo(&pool)
+                .await
+                .map_err(|e| format!("cannot load the demo fleet: {e}"))?;
+            serve(pool, addr, Some(report)).await
+        }
+        Command::SeedDemo { db, scale } => {
+            let pool = open(&db).await?;
+            let report = match scale {
+                Some(n) => loadhold::seed::generate(&pool, n).await,
+                None => loadhold::seed::load_demo(&pool).await,
+            }
+            .map_err(|e| format!("cannot seed {}: {e}", db.display()))?;
+            println!("{report}");
+            Ok(())
+        }
+        Command::Migrate { db } => {
+            let pool = open(&db).await?;
+            pool.close().await;
+            println!("{}: migrations applied", db.display());
+            Ok(())
+        }
+        Command::Backup { db, out } => {
+            let pool = db::connect(&db)
+                .await
+                .map_err(|e| format!("cannot open {}: {e}", db.display()))?;
+            db::backup(&pool, &out)
+                .await
+                .map_err(|e| format!("backup failed: {e}"))?;
+            println!("backup written to {}", out.display());
+            Ok(())
+        }
+    }
+}
+
+/// Removes a demo database and its WAL files so the demo starts fresh.
+fn remove_database(path: &Path) -> Result<(), String> {
+    for suffix in ["", "-wal", "-shm"] {
+        let file = PathBuf::from(format!("{}{suffix}", path.display()));
+        if file.exists() {
+            std::fs::remove_file(&file)
+                .map_err(|e| format!("cannot remove {}: {e}", file.display()))?;
+        }
+    }
+    Ok(())
+}
+
+async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result<(), String> {
+    let listener = TcpListener::bind(addr)
+        .await
+        .map_err(|e| format!("cannot listen on {addr}: {e}"))?;
+    let local = listener.local_addr().map_err(|e| e.to_string())?;
+    if let Some(banner) = banner {
+        println!("{banner}");
+    }
+    println!("Loadhold is serving at http://{local}/");
+    tracing::info!(%local, "listening");
+    let router = app::app(app::AppState::new(pool.clone()));
+    axum::serve(listener, router)
+        .with_graceful_shutdown(shutdown_signal())
+        .await
+        .map_err(|e| format!("server error: {e}"))?;
+    pool.close().await;
+    tracing::info!("stopped");
+    Ok(())
+}
+
+/// Resolves on Ctrl-C or SIGTERM; in-flight requests then finish before the server exits.
+async fn shutdown_signal() {
+    let ctrl_c = async {
+        let _ = tokio::signal::ctrl_c().await;
+    };
+    #[cfg(unix)]
+    let terminate = async {
+        match tokio::signal::unix::signal(tokio::signal::unix::SignalKind::terminate()) {
+            Ok(mut signal) => {
+                signal.recv().await;
+            }
+            Err(_) => std::future::pending::<()>().await,
+        }
+    };
+    #[cfg(not(unix))]
+    let terminate = std::future::pending::<()>();
+    tokio::select! {
+        () = ctrl_c => {},
+        () = terminate => {},
+    }
+    tracing::info!("shutdown signal received; finishing requests in flight");
+}

@@ -1,0 +1,63 @@
+//! Server-rendered pages. They work without JavaScript; `web/static/app.js` only improves them.
+
+use crate::app::AppState;
+use askama::Template;
+use askama_web::WebTemplate;
+use axum::Router;
+use axum::http::StatusCode;
+use axum::response::{IntoResponse, Redirect, Response};
+use axum::routing::get;
+
+pub mod assets;
+pub mod view;
+
+/// Every page route. Add one `.merge(...)` line per module.
+pub fn router() -> Router<AppState> {
+    Router::new()
+        .route("/", get(|| async { Redirect::to("/machines") }))
+        .merge(assets::router())
+        // calc: .merge(calc::router())
+        // registry: .merge(machines::router()).merge(cylinders::router()) ...
+        .fallback(not_found)
+}
+
+/// A page-level error: a short page in the site's layout with the right status.
+#[derive(Template, WebTemplate)]
+#[template(path = "error.html")]
+pub struct ErrorPage {
+    pub title: String,
+    pub message: String,
+}
+
+/// Renders `ErrorPage` with a status.
+pub fn error_page(status: StatusCode, title: &str, message: &str) -> Response {
+    let page = ErrorPage {
+        title: title.to_string(),
+        message: message.to_string(),
+    };
+    (status, page).into_response()
+}
+
+async fn not_found() -> Response {
+    error_page(
+        StatusCode::NOT_FOUND,
+        "Not found",
+        "There is no page at this address. Check the unit number or go back to the fleet list.",
+    )
+}
+
+/// Turns an `AppError` into a page for browsers (the API renders JSON instead).
+pub fn page_error(error: crate::error::AppError) -> Response {
+    let status = error.status();
+    let (_, message, _) = error.parts();
+    if status.is_server_error() {
+        if let crate::error::AppError::Internal(cause) = &error {
+            tracing::error!(%cause, "page failed");
+        }
+    }
+    error_page(
+        status,
+        status.canonical_reason().unwrap_or("Error"),
+        &message,
+    )
+}

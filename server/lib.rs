@@ -6,6 +6,7 @@
 
 pub mod api;
 pub mod app;
+pub mod auth;
 pub mod calc;
 pub mod db;
 pub mod error;

@@ -114,7 +114,7 @@ impl Cylinder {
         self.bore * self.bore / (self.bore * self.bore - self.rod * self.rod)
     }
 
-    /// Area of the end that holds a load acting in `direction`, m².
+    /// Piston area that the oil of one end acts on, m²: `A_cap` or `A_annulus`.
     pub fn area(&self, end: End) -> f64 {
         match end {
             End::Cap => self.cap_area(),

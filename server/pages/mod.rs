@@ -9,6 +9,7 @@ use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
 
 pub mod assets;
+pub mod ctx;
 pub mod view;
 
 /// Every page route. Add one `.merge(...)` line per module.
@@ -25,6 +26,7 @@ pub fn router() -> Router<AppState> {
 #[derive(Template, WebTemplate)]
 #[template(path = "error.html")]
 pub struct ErrorPage {
+    pub ctx: ctx::PageCtx,
     pub title: String,
     pub message: String,
 }
@@ -32,6 +34,7 @@ pub struct ErrorPage {
 /// Renders `ErrorPage` with a status.
 pub fn error_page(status: StatusCode, title: &str, message: &str) -> Response {
     let page = ErrorPage {
+        ctx: ctx::PageCtx::default(),
         title: title.to_string(),
         message: message.to_string(),
     };

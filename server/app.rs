@@ -3,11 +3,12 @@
 use crate::db::Db;
 use axum::Router;
 use axum::extract::State;
-use axum::http::StatusCode;
+use axum::http::{HeaderValue, StatusCode, header};
 use axum::routing::get;
 use std::time::Duration;
 use tower_http::compression::CompressionLayer;
 use tower_http::limit::RequestBodyLimitLayer;
+use tower_http::set_header::SetResponseHeaderLayer;
 use tower_http::timeout::TimeoutLayer;
 use tower_http::trace::TraceLayer;
 
@@ -32,6 +33,11 @@ pub fn app(state: AppState) -> Router {
         .route("/healthz", get(healthz))
         .merge(crate::api::router())
         .merge(crate::pages::router())
+        // accounts: who is asking, and may they (auth::rules); CSRF on session forms
+        .layer(axum::middleware::from_fn_with_state(
+            state.clone(),
+            crate::auth::middleware::authenticate,
+        ))
         .with_state(state)
         .layer(RequestBodyLimitLayer::new(BODY_LIMIT))
         .layer(TimeoutLayer::with_status_code(
@@ -39,6 +45,23 @@ pub fn app(state: AppState) -> Router {
             Duration::from_secs(30),
         ))
         .layer(CompressionLayer::new())
+        // accounts: security headers on every response
+        .layer(SetResponseHeaderLayer::if_not_present(
+            header::CONTENT_SECURITY_POLICY,
+            HeaderValue::from_static(crate::auth::CONTENT_SECURITY_POLICY),
+        ))
+        .layer(SetResponseHeaderLayer::if_not_present(
+            header::X_CONTENT_TYPE_OPTIONS,
+            HeaderValue::from_static("nosniff"),
+        ))
+        .layer(SetResponseHeaderLayer::if_not_present(
+            header::REFERRER_POLICY,
+            HeaderValue::from_static("same-origin"),
+        ))
+        .layer(SetResponseHeaderLayer::if_not_present(
+            header::X_FRAME_OPTIONS,
+            HeaderValue::from_static("DENY"),
+        ))
         .layer(TraceLayer::new_for_http())
 }
 

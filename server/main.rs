@@ -26,6 +26,9 @@ enum Command {
         db: PathBuf,
         #[arg(long, env = "LOADHOLD_ADDR", default_value = "127.0.0.1:8080")]
         addr: SocketAddr,
+        /// Mark session cookies Secure (set this when clients reach the server over TLS).
+        #[arg(long, env = "LOADHOLD_SECURE_COOKIES")]
+        secure_cookies: bool,
     },
     /// Load the demo fleet into a fresh database and serve it.
     Demo {
@@ -47,11 +50,49 @@ enum Command {
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
     },
+    /// Manage user accounts.
+    User {
+        #[command(subcommand)]
+        command: UserCommand,
+    },
+    /// Manage API bearer tokens.
+    Token {
+        #[command(subcommand)]
+        command: TokenCommand,
+    },
     /// Write a consistent copy of a live database to OUT.
     Backup {
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
         out: PathBuf,
+    },
+}
+
+#[derive(Subcommand)]
+enum UserCommand {
+    /// Add a user. The password is read from standard input, or generated and printed once.
+    Add {
+        name: String,
+        #[arg(long)]
+        role: String,
+        /// The name shown on signed records (default: the user name).
+        #[arg(long)]
+        display_name: Option<String>,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
+}
+
+#[derive(Subcommand)]
+enum TokenCommand {
+    /// Create an API token and print it once.
+    Create {
+        name: String,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+        /// technician (default), manager or admin.
+        #[arg(long)]
+        role: Option<String>,
     },
 }
 
@@ -95,7 +136,12 @@ async fn open(path: &Path) -> Result<db::Db, String> {
 
 async fn run(command: Command) -> Result<(), String> {
     match command {
-        Command::Serve { db, addr } => {
+        Command::Serve {
+            db,
+            addr,
+            secure_cookies,
+        } => {
+            loadhold::auth::cookie::set_secure(secure_cookies);
             let pool = open(&db).await?;
             serve(pool, addr, None).await
         }
@@ -105,7 +151,8 @@ async fn run(command: Command) -> Result<(), String> {
             let report = loadhold::seed::load_demo(&pool)
                 .await
                 .map_err(|e| format!("cannot load the demo fleet: {e}"))?;
-            serve(pool, addr, Some(report)).await
+            let logins = loadhold::auth::demo::create_demo_users(&pool).await?;
+            serve(pool, addr, Some(format!("{report}\n{logins}"))).await
         }
         Command::SeedDemo { db, scale } => {
             let pool = open(&db).await?;
@@ -121,6 +168,31 @@ async fn run(command: Command) -> Result<(), String> {
             let pool = open(&db).await?;
             pool.close().await;
             println!("{}: migrations applied", db.display());
+            Ok(())
+        }
+        Command::User {
+            command:
+                UserCommand::Add {
+                    name,
+                    role,
+                    display_name,
+                    db,
+                },
+        } => {
+            let pool = open(&db).await?;
+            let result =
+                loadhold::auth::cli::user_add(&pool, &name, &role, display_name.as_deref()).await;
+            pool.close().await;
+            println!("{}", result?);
+            Ok(())
+        }
+        Command::Token {
+            command: TokenCommand::Create { name, db, role },
+        } => {
+            let pool = open(&db).await?;
+            let result = loadhold::auth::cli::token_create(&pool, &name, role.as_deref()).await;
+            pool.close().await;
+            println!("{}", result?);
             Ok(())
         }
         Command::Backup { db, out } => {
@@ -159,6 +231,7 @@ async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result
     println!("Loadhold is serving at http://{local}/");
     tracing::info!(%local, "listening");
     let router = app::app(app::AppState::new(pool.clone()));
+    let router = router.into_make_service_with_connect_info::<SocketAddr>();
     axum::serve(listener, router)
         .with_graceful_shutdown(shutdown_signal())
         .await

@@ -6,11 +6,50 @@ use axum::Router;
 
 pub mod input;
 
+// calc
+pub mod calc;
+pub mod calc_input;
+pub mod calc_output;
+
+// registry
+pub mod cylinder_draft;
+pub mod cylinders;
+pub mod draft;
+pub mod errors;
+pub mod hose_draft;
+pub mod hoses;
+pub mod machine_draft;
+pub mod machines;
+pub mod paging;
+pub mod sites;
+
+// shop
+pub mod decay_tests;
+pub mod drift_tests;
+pub mod inspections;
+pub mod procedures;
+pub mod shop_input;
+
+// reports
+pub mod report_rows;
+pub mod reports;
+
 /// Every JSON route. Add one `.merge(...)` line per module.
 pub fn router() -> Router<AppState> {
     Router::new()
-        // calc: .merge(calc::router())
-        // registry: .merge(sites::router()).merge(machines::router()) ...
+        .merge(calc::router())
+        // registry
+        .merge(sites::router())
+        .merge(machines::router())
+        .merge(cylinders::router())
+        .merge(hoses::router())
+        // shop
+        .merge(drift_tests::router())
+        .merge(decay_tests::router())
+        .merge(inspections::router())
+        .merge(procedures::router())
+        // reports
+        .merge(reports::router())
         .route("/api/{*rest}", axum::routing::any(api_not_found))
 }
 

@@ -1,9 +1,33 @@
-//! Who is acting. Handlers take an `Actor` and pass it to storage so every change is
-//! recorded with its author. (Accounts, sessions and tokens fill this in: issue 6.)
+//! Who is acting, and who may. Handlers take an `Actor` and pass it to storage so every
+//! change is recorded with its author. The middleware in `middleware` fills it in from a
+//! session cookie or a bearer token and applies the access table in `rules`.
+//!
+//! Storage modules (`users`, `sessions`, `tokens`, `throttle`, `audit_list`) know nothing of
+//! HTTP; `middleware` and `cookie` are the HTTP side; `cli` and `demo` serve the command line.
 
 use axum::extract::FromRequestParts;
 use axum::http::request::Parts;
 use std::convert::Infallible;
+
+pub mod audit_list;
+pub mod cli;
+pub mod clock;
+pub mod cookie;
+pub mod demo;
+pub mod login;
+pub mod middleware;
+pub mod password;
+pub mod rules;
+pub mod secret;
+pub mod sessions;
+pub mod throttle;
+pub mod tokens;
+pub mod users;
+
+/// The content security policy of every response: no inline script, nothing from elsewhere.
+pub const CONTENT_SECURITY_POLICY: &str = "default-src 'self'; script-src 'self'; \
+    style-src 'self'; img-src 'self' data:; frame-ancestors 'none'; form-action 'self'; \
+    base-uri 'none'";
 
 /// The roles of the service department, from least to most trusted.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]

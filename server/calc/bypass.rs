@@ -152,7 +152,8 @@ pub fn seal_bypass(
         LoadDirection::Retract => {
             let hold = load / cylinder.cap_area();
             let final_pressure = load / cylinder.rod_area();
-            let absorbed = trapped.compliance(cylinder, End::Cap, position) * (final_pressure - hold)
+            let absorbed = trapped.compliance(cylinder, End::Cap, position)
+                * (final_pressure - hold)
                 + trapped.compliance(cylinder, End::Rod, position) * final_pressure;
             SealBypass {
                 outcome: Outcome::Intensifies,

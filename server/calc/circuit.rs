@@ -12,7 +12,12 @@ use serde::Serialize;
 /// and `-F` for a load pushing it in (force balance on the piston; REFERENCES.md "Flow and
 /// circuits": 100/70 mm at 200 bar gives 392 bar with no load). Never below 0: a push load
 /// larger than `p A_cap` drives the piston home instead.
-pub fn rod_side_intensification(cylinder: &Cylinder, supply: f64, load: f64, direction: LoadDirection) -> f64 {
+pub fn rod_side_intensification(
+    cylinder: &Cylinder,
+    supply: f64,
+    load: f64,
+    direction: LoadDirection,
+) -> f64 {
     let pull = match direction {
         LoadDirection::Extend => load,
         LoadDirection::Retract => -load,
@@ -40,7 +45,11 @@ pub struct Speeds {
 /// textbook "Hydraulics", Open Oregon Educational Resources). In US units this is the rule of
 /// thumb v(in/s) = 3.85 Q(gpm) / A(in²) (common practice).
 pub fn speeds(cylinder: &Cylinder, flow: f64) -> Speeds {
-    let (cap, rod, annulus) = (cylinder.cap_area(), cylinder.rod_area(), cylinder.annulus_area());
+    let (cap, rod, annulus) = (
+        cylinder.cap_area(),
+        cylinder.rod_area(),
+        cylinder.annulus_area(),
+    );
     Speeds {
         extend: flow / cap,
         retract: flow / annulus,

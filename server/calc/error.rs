@@ -31,7 +31,10 @@ impl std::error::Error for CalcError {}
 /// `what` describes the value for the message, e.g. "the bore".
 pub fn in_range(field: &str, what: &str, value: f64, min: f64, max: f64) -> Result<f64, CalcError> {
     if !value.is_finite() {
-        return Err(CalcError::new(field, format!("{what} must be a finite number")));
+        return Err(CalcError::new(
+            field,
+            format!("{what} must be a finite number"),
+        ));
     }
     if value < min || value > max {
         return Err(CalcError::new(

@@ -36,9 +36,14 @@ pub const DEFAULT_TRAPPED_TEMPERATURE_RISE: f64 = 10.0;
 /// (from memory, REFERENCES.md); it equals `2 u / (a p)` with `u` the plane-stress Lamé radial
 /// growth of the bore, i.e. the fractional growth of the bore's cross-section per pascal.
 /// Returns `None` when `Do <= D` or an input is not positive and finite.
-pub fn tube_bulk_modulus(bore: f64, outside_diameter: f64, youngs: f64, poisson: f64) -> Option<f64> {
+pub fn tube_bulk_modulus(
+    bore: f64,
+    outside_diameter: f64,
+    youngs: f64,
+    poisson: f64,
+) -> Option<f64> {
     let ok = |v: f64| v.is_finite() && v > 0.0;
-    if !(ok(bore) && ok(outside_diameter) && ok(youngs)) || !poisson.is_finite() {
+    if !(ok(bore) && ok(outside_diameter) && ok(youngs) && poisson.is_finite()) {
         return None;
     }
     if outside_diameter <= bore {
@@ -60,11 +65,7 @@ pub fn tube_bulk_modulus(bore: f64, outside_diameter: f64, youngs: f64, poisson:
 /// air, about the absolute pressure when compressed isothermally). Origin: Merritt, Hydraulic
 /// Control Systems (from memory); the same form in Rabie, Fluid Power Engineering, p. 55
 /// (REFERENCES.md). Returns `Bl` unchanged when the other terms are absent.
-pub fn effective_bulk_modulus(
-    liquid: f64,
-    container: Option<f64>,
-    gas: Option<(f64, f64)>,
-) -> f64 {
+pub fn effective_bulk_modulus(liquid: f64, container: Option<f64>, gas: Option<(f64, f64)>) -> f64 {
     let mut compliance = 1.0 / liquid;
     if let Some(bc) = container {
         compliance += 1.0 / bc;
@@ -82,6 +83,10 @@ pub fn effective_bulk_modulus(
 /// the bulk modulus). Common practice; REFERENCES.md computes 1.5 GPa x 7e-4 = 10.5 bar per
 /// degC. The container's own thermal growth is neglected (steel grows about a twentieth as
 /// much as oil), which errs on the high side. Negative for cooling.
-pub fn trapped_pressure_rise(effective_bulk_modulus: f64, expansion: f64, temperature_rise: f64) -> f64 {
+pub fn trapped_pressure_rise(
+    effective_bulk_modulus: f64,
+    expansion: f64,
+    temperature_rise: f64,
+) -> f64 {
     effective_bulk_modulus * expansion * temperature_rise
 }

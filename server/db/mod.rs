@@ -7,6 +7,24 @@ use std::path::Path;
 use std::str::FromStr;
 use std::time::Duration;
 
+// registry
+pub mod audit;
+pub mod cylinders;
+pub mod hoses;
+pub mod machines;
+pub mod page;
+pub mod sites;
+pub mod write;
+
+// shop
+pub mod decay_tests;
+pub mod drift_tests;
+pub mod inspections;
+pub mod procedures;
+
+// reports
+pub mod reports;
+
 /// The pool type used across the storage layer.
 pub type Db = SqlitePool;
 

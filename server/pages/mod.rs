@@ -8,17 +8,42 @@ use axum::http::StatusCode;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
 
+pub mod admin; // accounts
 pub mod assets;
+pub mod calc;
+pub mod calc_view;
 pub mod ctx;
+pub mod login; // accounts
 pub mod view;
+
+// registry
+pub mod cylinders;
+pub mod forms;
+pub mod hoses;
+pub mod machine_page;
+pub mod machines;
+pub mod safety;
+pub mod sites;
+
+// reports
+pub mod report_views;
+pub mod reports;
 
 /// Every page route. Add one `.merge(...)` line per module.
 pub fn router() -> Router<AppState> {
     Router::new()
         .route("/", get(|| async { Redirect::to("/machines") }))
         .merge(assets::router())
-        // calc: .merge(calc::router())
-        // registry: .merge(machines::router()).merge(cylinders::router()) ...
+        .merge(login::router()) // accounts
+        .merge(admin::router()) // accounts
+        .merge(calc::router())
+        // registry
+        .merge(machines::router())
+        .merge(cylinders::router())
+        .merge(hoses::router())
+        .merge(sites::router())
+        // reports
+        .merge(reports::router())
         .fallback(not_found)
 }
 

@@ -1,0 +1,303 @@
+//! `/api/v1/cylinders/{id}/decay-tests`: pressure-decay tests (the cylinder blocked at end of
+//! stroke, one end pressurised) analysed as `POST /api/v1/calc/pressure-decay` answers and
+//! stored append-only with the readings, the analysis and the calculation version.
+
+use super::calc_input::{DECAY_FIELDS, calc_error, parse_cylinder_request, parse_decay_readings};
+use super::calc_output::decay_response;
+use super::draft::{Problems, first};
+use super::drift_tests::{applicable_procedure, cylinder_request};
+use super::input::{Body, Fields};
+use super::paging::path_id;
+use super::shop_input::{self, si};
+use crate::app::AppState;
+use crate::auth::Actor;
+use crate::calc::CALC_VERSION;
+use crate::calc::decay::analyse_decay;
+use crate::calc::quantity::Dimension as D;
+use crate::db::cylinders::{self, Cylinder};
+use crate::db::decay_tests::{self as store, DecayTest, NewDecayTest};
+use crate::db::drift_tests::Stored;
+use crate::db::machines::{self, Machine};
+use crate::db::procedures::Procedure;
+use crate::db::Db;
+use crate::error::{ApiResult, AppError};
+use axum::extract::{Path, State};
+use axum::http::StatusCode;
+use axum::routing::get;
+use axum::{Json, Router};
+use serde_json::{Map, Value, json};
+
+pub fn router() -> Router<AppState> {
+    Router::new()
+        .route(
+            "/api/v1/cylinders/{id}/decay-tests",
+            get(list).post(create),
+        )
+        .route("/api/v1/decay-tests/{id}", get(show))
+}
+
+const CALC_FIELDS: &[&str] = &[
+    "load",
+    "load_direction",
+    "oil_expansion",
+    "bulk_modulus",
+    "cap_line_volume",
+    "rod_line_volume",
+    "units",
+];
+
+const RECORD_FIELDS: &[&str] = &[
+    "tested_at",
+    "technician",
+    "procedure_id",
+    "client_token",
+    "amends",
+    "notes",
+    "ambient_temperature",
+];
+
+pub fn body_fields() -> Vec<&'static str> {
+    DECAY_FIELDS
+        .iter()
+        .chain(CALC_FIELDS)
+        .chain(RECORD_FIELDS)
+        .copied()
+        .collect()
+}
+
+fn check_readings(f: &Fields, p: &mut Problems) {
+    p.take(f.choice("pressurised_end", &["cap", "rod"]));
+    p.take(f.quantity("duration", D::Time));
+    for name in ["pressure_start", "pressure_end"] {
+        p.take(f.quantity(name, D::Pressure));
+    }
+    for name in ["other_pressure_start", "other_pressure_end", "bulk_modulus"] {
+        p.take(f.opt_quantity(name, D::Pressure));
+    }
+    for name in ["oil_temperature_start", "oil_temperature_end"] {
+        p.take(f.quantity(name, D::Temperature));
+    }
+    p.take(f.opt_quantity("load", D::Force));
+    p.take(f.opt_choice("load_direction", &["retract", "extend"]));
+    p.take(f.opt_quantity("oil_expansion", D::Expansion));
+    for name in ["cap_line_volume", "rod_line_volume"] {
+        p.take(f.opt_quantity(name, D::Volume));
+    }
+    p.take(f.units());
+}
+
+/// Reads a decay-test body for `cylinder`, builds the calculation request, runs the analysis
+/// and returns the record to store; every problem names its field.
+pub async fn prepare(
+    db: &Db,
+    cylinder: &Cylinder,
+    machine: &Machine,
+    body: &Map<String, Value>,
+    user: Option<&str>,
+) -> Result<NewDecayTest, Vec<AppError>> {
+    let f = Fields::new(body);
+    f.deny_unknown(&body_fields()).map_err(|e| vec![e])?;
+    let mut problems = Problems::default();
+    let (tested_at, technician, token, amends, notes) =
+        shop_input::common(&f, "tested_at", "technician", user, &mut problems);
+    let procedure_id = problems.take(super::draft::id(&f, "procedure_id")).flatten();
+    check_readings(&f, &mut problems);
+    let procedure = match procedure_id {
+        Some(id) => problems.take(applicable_procedure(db, id, "decay", cylinder, machine).await),
+        None => None,
+    };
+    let ambient = problems
+        .take(f.opt_quantity("ambient_temperature", D::Temperature))
+        .flatten();
+    if !problems.is_empty() {
+        return Err(problems.0);
+    }
+    // A blocked cylinder at end of stroke holds no load of its own; the cylinder's load is
+    // still given to the core for its ratings and hazards, and a zero load when none is known.
+    let mut request = match cylinder_request(db, cylinder, f.has("load")).await {
+        Ok(r) => r,
+        Err(_) => {
+            let mut r = cylinder_request(db, cylinder, true).await.map_err(|e| vec![e])?;
+            r.insert("load".into(), si(0.0, D::Force));
+            r
+        }
+    };
+    for name in DECAY_FIELDS.iter().chain(CALC_FIELDS) {
+        if let Some(v) = f.raw(name) {
+            request.insert((*name).into(), v.clone());
+        }
+    }
+    let oil_start = f
+        .quantity("oil_temperature_start", D::Temperature)
+        .map_err(|e| vec![e])?;
+    if let Some(p) = &procedure {
+        if !f.has("limit")
+            && let Some(a) = p.allowed_at(oil_start)
+        {
+            request.insert(
+                "limit".into(),
+                json!({"pressure": si(a.amount, D::Pressure), "per": si(a.per, D::Time)}),
+            );
+        }
+        if !f.has("oil_expansion")
+            && let Some(e) = p.oil_expansion_per_k
+        {
+            request.insert("oil_expansion".into(), si(e, D::Expansion));
+        }
+    }
+    if !f.has("units") {
+        let units = cylinder.site_units.as_deref().unwrap_or("metric");
+        request.insert("units".into(), json!(units));
+    }
+    let record = Record {
+        tested_at,
+        technician,
+        ambient,
+        token,
+        amends,
+        notes,
+    };
+    analyse(cylinder, procedure.as_ref(), request, record).map_err(|e| vec![e])
+}
+
+struct Record {
+    tested_at: Option<String>,
+    technician: Option<String>,
+    ambient: Option<f64>,
+    token: Option<String>,
+    amends: Option<i64>,
+    notes: Option<String>,
+}
+
+fn analyse(
+    cylinder: &Cylinder,
+    procedure: Option<&Procedure>,
+    request: Map<String, Value>,
+    record: Record,
+) -> Result<NewDecayTest, AppError> {
+    let rf = Fields::new(&request);
+    let units = rf.units()?;
+    let input = parse_cylinder_request(&rf)?;
+    let readings = parse_decay_readings(&rf)?;
+    let report = analyse_decay(&input, &readings, units).map_err(calc_error)?;
+    let analysis = decay_response(&report, units);
+    Ok(NewDecayTest {
+        cylinder_id: cylinder.id,
+        procedure_id: procedure.map(|p| p.id),
+        tested_at: record.tested_at.unwrap_or_else(crate::db::now_rfc3339),
+        technician: record.technician.unwrap_or_default(),
+        pressurised_end: readings.pressurised_end.as_str().to_string(),
+        duration_s: readings.duration,
+        pressure_start_pa: readings.pressure_start,
+        pressure_end_pa: readings.pressure_end,
+        other_pressure_start_pa: readings.other_pressure_start,
+        other_pressure_end_pa: readings.other_pressure_end,
+        oil_temperature_start_k: readings.oil_temperature_start,
+        oil_temperature_end_k: readings.oil_temperature_end,
+        ambient_temperature_k: record.ambient,
+        limit_pressure_drop_pa: readings.limit.map(|l| l.pressure),
+        limit_period_s: readings.limit.map(|l| l.per),
+        readings_json: Value::Object(request).to_string(),
+        analysis_json: analysis.to_string(),
+        calc_version: CALC_VERSION.to_string(),
+        verdict: report.verdict.as_str().to_string(),
+        diagnosis: report.diagnosis.as_str().to_string(),
+        pressure_change_pa: report.measured_change,
+        thermal_pressure_change_pa: report.thermal_change,
+        scaled_drop_pa: report.scaled_drop,
+        scaled_period_s: report.limit.map_or(3600.0, |l| l.per),
+        flags: shop_input::temperature_flags(
+            procedure,
+            readings.oil_temperature_start,
+            readings.oil_temperature_end,
+        ),
+        notes: record.notes,
+        client_token: record.token,
+        amends_id: record.amends,
+    })
+}
+
+pub async fn store(db: &Db, actor: &Actor, new: &NewDecayTest) -> ApiResult<Stored<DecayTest>> {
+    let mut tx = db.begin().await?;
+    let stored = store::insert(&mut tx, &actor.name, new).await?;
+    tx.commit().await?;
+    Ok(stored)
+}
+
+pub fn to_json(t: &DecayTest) -> Value {
+    let parse = |text: &str| serde_json::from_str::<Value>(text).unwrap_or(Value::Null);
+    json!({
+        "id": t.id,
+        "cylinder_id": t.cylinder_id,
+        "procedure_id": t.procedure_id,
+        "tested_at": t.tested_at,
+        "technician": t.technician,
+        "readings": parse(&t.readings_json),
+        "analysis": parse(&t.analysis_json),
+        "calc_version": t.calc_version,
+        "verdict": t.verdict,
+        "diagnosis": t.diagnosis,
+        "flags": t.flag_list(),
+        "notes": t.notes,
+        "client_token": t.client_token,
+        "amends": t.amends_id,
+        "amended_by": t.amended_by_id,
+        "in_force": t.in_force(),
+        "created_at": t.created_at,
+        "created_by": t.created_by,
+    })
+}
+
+async fn cylinder_and_machine(db: &Db, id: &str) -> ApiResult<(Cylinder, Machine)> {
+    let id = path_id(id, "cylinder")?;
+    let c = cylinders::find(db, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
+    let m = machines::find(db, c.machine_id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("machine {}", c.machine_id)))?;
+    Ok((c, m))
+}
+
+async fn create(
+    State(state): State<AppState>,
+    actor: Actor,
+    Path(id): Path<String>,
+    Body(map): Body,
+) -> ApiResult<(StatusCode, Json<Value>)> {
+    let (cylinder, machine) = cylinder_and_machine(&state.db, &id).await?;
+    if cylinder.archived_at.is_some() {
+        return Err(AppError::conflict(
+            "cylinder",
+            "this cylinder is archived; restore it before recording tests",
+        ));
+    }
+    let user = actor.user_id.map(|_| actor.name.as_str());
+    let new = prepare(&state.db, &cylinder, &machine, &map, user)
+        .await
+        .map_err(first)?;
+    let stored = store(&state.db, &actor, &new).await?;
+    let status = if stored.is_new() {
+        StatusCode::CREATED
+    } else {
+        StatusCode::OK
+    };
+    Ok((status, Json(to_json(stored.record()))))
+}
+
+async fn list(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
+    let (cylinder, _) = cylinder_and_machine(&state.db, &id).await?;
+    let rows = store::of_cylinder(&state.db, cylinder.id).await?;
+    Ok(Json(json!({
+        "items": rows.iter().map(to_json).collect::<Vec<_>>(),
+        "next_cursor": Value::Null,
+    })))
+}
+
+async fn show(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
+    let id = path_id(&id, "decay test")?;
+    let t = store::find(&state.db, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("decay test {id}")))?;
+    Ok(Json(to_json(&t)))
+}

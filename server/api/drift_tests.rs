@@ -1,0 +1,425 @@
+//! `/api/v1/cylinders/{id}/drift-tests`: drift tests recorded against a registry cylinder,
+//! analysed by the engineering core exactly as `POST /api/v1/calc/drift-test` answers, and
+//! stored append-only with the readings, the analysis and the calculation version.
+
+use super::calc_input::{
+    DRIFT_FIELDS, calc_error, parse_cylinder_request, parse_drift_readings,
+};
+use super::calc_output::drift_response;
+use super::draft::{Problems, first};
+use super::input::{Body, Fields};
+use super::paging::path_id;
+use super::shop_input::{self, si};
+use crate::app::AppState;
+use crate::auth::Actor;
+use crate::calc::CALC_VERSION;
+use crate::calc::cylinder::{Cylinder as Geometry, LoadDirection};
+use crate::calc::drift::{Movement, analyse_drift};
+use crate::calc::quantity::Dimension as D;
+use crate::db::cylinders::{self, Cylinder};
+use crate::db::drift_tests::{self as store, DriftTest, NewDriftTest, Stored};
+use crate::db::machines::{self, Machine};
+use crate::db::procedures::{self, Procedure};
+use crate::db::{Db, hoses};
+use crate::error::{ApiResult, AppError};
+use axum::extract::{Path, State};
+use axum::http::StatusCode;
+use axum::routing::get;
+use axum::{Json, Router};
+use serde_json::{Map, Value, json};
+
+pub fn router() -> Router<AppState> {
+    Router::new()
+        .route(
+            "/api/v1/cylinders/{id}/drift-tests",
+            get(list).post(create),
+        )
+        .route("/api/v1/drift-tests/{id}", get(show))
+}
+
+/// Fields of the calculation request a drift-test body may carry (the geometry, ratings and
+/// supply pressure come from the registry).
+const CALC_FIELDS: &[&str] = &[
+    "position",
+    "load",
+    "load_direction",
+    "oil_expansion",
+    "bulk_modulus",
+    "cap_line_volume",
+    "rod_line_volume",
+    "units",
+];
+
+/// Fields of the record itself.
+const RECORD_FIELDS: &[&str] = &[
+    "tested_at",
+    "technician",
+    "procedure_id",
+    "client_token",
+    "amends",
+    "notes",
+    "ambient_temperature",
+];
+
+/// Every field a drift-test body accepts.
+pub fn body_fields() -> Vec<&'static str> {
+    DRIFT_FIELDS
+        .iter()
+        .chain(CALC_FIELDS)
+        .chain(RECORD_FIELDS)
+        .copied()
+        .collect()
+}
+
+/// Checks the form of each reading so that every bad field is named at once (the core's
+/// parser stops at the first).
+fn check_readings(f: &Fields, problems: &mut Problems) {
+    problems.take(f.quantity("duration", D::Time));
+    problems.take(f.opt_signed_quantity("drift", D::Length));
+    for name in ["start_position", "end_position", "position"] {
+        problems.take(f.opt_quantity(name, D::Length));
+    }
+    for name in ["oil_temperature_start", "oil_temperature_end"] {
+        problems.take(f.quantity(name, D::Temperature));
+    }
+    for name in [
+        "cap_pressure_start",
+        "cap_pressure_end",
+        "rod_pressure_start",
+        "rod_pressure_end",
+        "bulk_modulus",
+    ] {
+        problems.take(f.opt_quantity(name, D::Pressure));
+    }
+    problems.take(f.opt_quantity("load", D::Force));
+    problems.take(f.opt_choice("load_direction", &["retract", "extend"]));
+    problems.take(f.opt_quantity("oil_expansion", D::Expansion));
+    for name in ["cap_line_volume", "rod_line_volume"] {
+        problems.take(f.opt_quantity(name, D::Volume));
+    }
+    problems.take(f.units());
+}
+
+/// The procedure named by `procedure_id`, checked to be a drift procedure that applies to
+/// this cylinder (its own, or shared by its machine's kind) and not archived.
+pub async fn applicable_procedure(
+    db: &Db,
+    id: i64,
+    kind: &str,
+    cylinder: &Cylinder,
+    machine: &Machine,
+) -> Result<Procedure, AppError> {
+    let bad = |message: String| AppError::field("procedure_id", "invalid_reference", message);
+    let p = procedures::find(db, id)
+        .await?
+        .ok_or_else(|| bad(format!("there is no procedure {id}")))?;
+    if p.kind != kind {
+        return Err(bad(format!("procedure {id} is a {} procedure", p.kind)));
+    }
+    if p.archived_at.is_some() {
+        return Err(bad(format!("procedure {id} is archived")));
+    }
+    let fits = p.cylinder_id == Some(cylinder.id)
+        || p.machine_kind.as_deref() == Some(machine.kind.as_str());
+    if !fits {
+        return Err(bad(format!(
+            "procedure {id} is for another cylinder or machine kind"
+        )));
+    }
+    Ok(p)
+}
+
+/// The calculation request for a registry cylinder: its geometry, held load, relief setting,
+/// tube, end condition and ratings (cylinder and each rated hose on its ports), as SI JSON.
+pub async fn cylinder_request(
+    db: &Db,
+    c: &Cylinder,
+    load_given: bool,
+) -> Result<Map<String, Value>, AppError> {
+    let mut r = Map::new();
+    r.insert("bore".into(), si(c.bore_m, D::Length));
+    r.insert("rod".into(), si(c.rod_m, D::Length));
+    r.insert("stroke".into(), si(c.stroke_m, D::Length));
+    r.insert("load_direction".into(), json!(c.load_direction));
+    if !load_given {
+        let geometry =
+            Geometry::new(c.bore_m, c.rod_m, c.stroke_m).map_err(|e| AppError::internal(e.message))?;
+        let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
+        let load = c.max_load_n.or_else(|| {
+            c.holding_pressure_pa
+                .map(|p| p * geometry.area(direction.holding_end()))
+        });
+        match load {
+            Some(load) => {
+                r.insert("load".into(), si(load, D::Force));
+            }
+            None => {
+                return Err(AppError::field(
+                    "load",
+                    "required",
+                    "the cylinder record has no load or holding pressure; give the load held in this test",
+                ));
+            }
+        }
+    }
+    if let Some(p) = c.machine_relief_pressure_pa {
+        r.insert("supply_pressure".into(), si(p, D::Pressure));
+    }
+    if let Some(od) = c.tube_outside_diameter_m {
+        r.insert("tube_outside_diameter".into(), si(od, D::Length));
+        if let Some(y) = c.tube_yield_pa {
+            r.insert("tube_yield".into(), si(y, D::Pressure));
+        }
+    }
+    if let Some(e) = &c.end_condition {
+        r.insert("end_condition".into(), json!(e));
+    }
+    let mut ratings = Map::new();
+    if let Some(p) = c.rated_pressure_pa {
+        ratings.insert("cylinder".into(), si(p, D::Pressure));
+    }
+    let fitted: Vec<Value> = hoses::of_machine(db, c.machine_id)
+        .await?
+        .into_iter()
+        .filter(|h| h.cylinder_id == Some(c.id))
+        .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
+            (Some(rating), Some(port)) => Some(json!({
+                "label": format!("H{} ({})", h.id, h.place()),
+                "port": port,
+                "rating": si(rating, D::Pressure),
+            })),
+            _ => None,
+        })
+        .collect();
+    if !fitted.is_empty() {
+        ratings.insert("hoses".into(), Value::Array(fitted));
+    }
+    if !ratings.is_empty() {
+        r.insert("ratings".into(), Value::Object(ratings));
+    }
+    Ok(r)
+}
+
+/// Reads a drift-test body (API JSON or the shop form, already as JSON) for `cylinder`, builds
+/// the calculation request, runs the analysis and returns the record to store. Every problem
+/// found is returned, each naming its field.
+pub async fn prepare(
+    db: &Db,
+    cylinder: &Cylinder,
+    machine: &Machine,
+    body: &Map<String, Value>,
+    user: Option<&str>,
+) -> Result<NewDriftTest, Vec<AppError>> {
+    let f = Fields::new(body);
+    f.deny_unknown(&body_fields()).map_err(|e| vec![e])?;
+    let mut problems = Problems::default();
+    let (tested_at, technician, token, amends, notes) =
+        shop_input::common(&f, "tested_at", "technician", user, &mut problems);
+    let procedure_id = problems.take(super::draft::id(&f, "procedure_id")).flatten();
+    check_readings(&f, &mut problems);
+    let procedure = match procedure_id {
+        Some(id) => problems.take(applicable_procedure(db, id, "drift", cylinder, machine).await),
+        None => None,
+    };
+    let ambient = problems
+        .take(f.opt_quantity("ambient_temperature", D::Temperature))
+        .flatten();
+    if !problems.is_empty() {
+        return Err(problems.0);
+    }
+    let mut request = cylinder_request(db, cylinder, f.has("load"))
+        .await
+        .map_err(|e| vec![e])?;
+    for name in DRIFT_FIELDS.iter().chain(CALC_FIELDS) {
+        if let Some(v) = f.raw(name) {
+            request.insert((*name).into(), v.clone());
+        }
+    }
+    let oil_start = f
+        .quantity("oil_temperature_start", D::Temperature)
+        .map_err(|e| vec![e])?;
+    if let Some(p) = &procedure {
+        if !f.has("limit")
+            && let Some(a) = p.allowed_at(oil_start)
+        {
+            request.insert(
+                "limit".into(),
+                json!({"distance": si(a.amount, D::Length), "per": si(a.per, D::Time)}),
+            );
+        }
+        if !f.has("oil_expansion")
+            && let Some(e) = p.oil_expansion_per_k
+        {
+            request.insert("oil_expansion".into(), si(e, D::Expansion));
+        }
+    }
+    if !f.has("units") {
+        let units = cylinder.site_units.as_deref().unwrap_or("metric");
+        request.insert("units".into(), json!(units));
+    }
+    analyse(cylinder, procedure.as_ref(), request, tested_at, technician, ambient, token, amends, notes)
+        .map_err(|e| vec![e])
+}
+
+/// Runs the calculation request through the engineering core as the calculation API does and
+/// fills the record.
+#[allow(clippy::too_many_arguments)]
+fn analyse(
+    cylinder: &Cylinder,
+    procedure: Option<&Procedure>,
+    request: Map<String, Value>,
+    tested_at: Option<String>,
+    technician: Option<String>,
+    ambient: Option<f64>,
+    token: Option<String>,
+    amends: Option<i64>,
+    notes: Option<String>,
+) -> Result<NewDriftTest, AppError> {
+    let rf = Fields::new(&request);
+    let units = rf.units()?;
+    let input = parse_cylinder_request(&rf)?;
+    let readings = parse_drift_readings(&rf)?;
+    let report = analyse_drift(&input, &readings, units).map_err(calc_error)?;
+    let analysis = drift_response(&report, units);
+    let (drift_m, start, end) = match readings.movement {
+        Movement::Drift(d) => (Some(d), None, None),
+        Movement::Positions { start, end } => (None, Some(start), Some(end)),
+    };
+    let p = readings.pressures;
+    Ok(NewDriftTest {
+        cylinder_id: cylinder.id,
+        procedure_id: procedure.map(|p| p.id),
+        tested_at: tested_at.unwrap_or_else(crate::db::now_rfc3339),
+        technician: technician.unwrap_or_default(),
+        duration_s: readings.duration,
+        drift_m,
+        start_position_m: start,
+        end_position_m: end,
+        oil_temperature_start_k: readings.oil_temperature_start,
+        oil_temperature_end_k: readings.oil_temperature_end,
+        ambient_temperature_k: ambient,
+        cap_pressure_start_pa: p.cap_start,
+        cap_pressure_end_pa: p.cap_end,
+        rod_pressure_start_pa: p.rod_start,
+        rod_pressure_end_pa: p.rod_end,
+        load_n: Some(input.load),
+        load_direction: input.load_direction.as_str().to_string(),
+        limit_distance_m: readings.limit.map(|l| l.distance),
+        limit_period_s: readings.limit.map(|l| l.per),
+        readings_json: Value::Object(request).to_string(),
+        analysis_json: analysis.to_string(),
+        calc_version: CALC_VERSION.to_string(),
+        verdict: report.verdict.as_str().to_string(),
+        diagnosis: report.diagnosis.as_str().to_string(),
+        scaled_drift_m: report.scaled_drift,
+        leak_drift_m: report.leak_drift,
+        scaled_leak_drift_m: report.scaled_leak_drift,
+        scaled_period_s: report.scaled_per,
+        flags: shop_input::temperature_flags(
+            procedure,
+            readings.oil_temperature_start,
+            readings.oil_temperature_end,
+        ),
+        notes,
+        client_token: token,
+        amends_id: amends,
+    })
+}
+
+/// Stores a prepared drift test in one transaction with its audit row.
+pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stored<DriftTest>> {
+    let mut tx = db.begin().await?;
+    let stored = store::insert(&mut tx, &actor.name, new).await?;
+    tx.commit().await?;
+    Ok(stored)
+}
+
+/// A stored drift test as the API shows it: the readings as sent to the core, the analysis as
+/// computed, and who recorded it and when.
+pub fn to_json(t: &DriftTest) -> Value {
+    let parse = |text: &str| serde_json::from_str::<Value>(text).unwrap_or(Value::Null);
+    json!({
+        "id": t.id,
+        "cylinder_id": t.cylinder_id,
+        "procedure_id": t.procedure_id,
+        "tested_at": t.tested_at,
+        "technician": t.technician,
+        "readings": parse(&t.readings_json),
+        "analysis": parse(&t.analysis_json),
+        "calc_version": t.calc_version,
+        "verdict": t.verdict,
+        "diagnosis": t.diagnosis,
+        "flags": t.flag_list(),
+        "ambient_temperature": super::paging::shown(
+            t.ambient_temperature_k,
+            D::Temperature,
+            Default::default()
+        ),
+        "notes": t.notes,
+        "client_token": t.client_token,
+        "amends": t.amends_id,
+        "amended_by": t.amended_by_id,
+        "in_force": t.in_force(),
+        "created_at": t.created_at,
+        "created_by": t.created_by,
+    })
+}
+
+async fn cylinder_and_machine(db: &Db, id: &str) -> ApiResult<(Cylinder, Machine)> {
+    let id = path_id(id, "cylinder")?;
+    let c = cylinders::find(db, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
+    let m = machines::find(db, c.machine_id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("machine {}", c.machine_id)))?;
+    Ok((c, m))
+}
+
+/// `POST /api/v1/cylinders/{id}/drift-tests`: 201 with the new record, or 200 with the record
+/// a repeated `client_token` stored before.
+async fn create(
+    State(state): State<AppState>,
+    actor: Actor,
+    Path(id): Path<String>,
+    Body(map): Body,
+) -> ApiResult<(StatusCode, Json<Value>)> {
+    let (cylinder, machine) = cylinder_and_machine(&state.db, &id).await?;
+    if cylinder.archived_at.is_some() {
+        return Err(AppError::conflict(
+            "cylinder",
+            "this cylinder is archived; restore it before recording tests",
+        ));
+    }
+    let user = actor.user_id.map(|_| actor.name.as_str());
+    let new = prepare(&state.db, &cylinder, &machine, &map, user)
+        .await
+        .map_err(first)?;
+    let stored = store(&state.db, &actor, &new).await?;
+    let status = if stored.is_new() {
+        StatusCode::CREATED
+    } else {
+        StatusCode::OK
+    };
+    Ok((status, Json(to_json(stored.record()))))
+}
+
+/// `GET /api/v1/cylinders/{id}/drift-tests`: every record, amended ones included, oldest test
+/// first.
+async fn list(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
+    let (cylinder, _) = cylinder_and_machine(&state.db, &id).await?;
+    let rows = store::of_cylinder(&state.db, cylinder.id).await?;
+    Ok(Json(json!({
+        "items": rows.iter().map(to_json).collect::<Vec<_>>(),
+        "next_cursor": Value::Null,
+    })))
+}
+
+/// `GET /api/v1/drift-tests/{id}`.
+async fn show(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
+    let id = path_id(&id, "drift test")?;
+    let t = store::find(&state.db, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("drift test {id}")))?;
+    Ok(Json(to_json(&t)))
+}

@@ -1,0 +1,119 @@
+//! `/api/v1/sites`: yards and depots, and the units their people read.
+
+use super::draft::{Problems, first, required_text, touched};
+use super::input::{Body, Fields};
+use super::paging::{Params, page_json, path_id};
+use crate::app::AppState;
+use crate::auth::Actor;
+use crate::db::sites::{self, Site, SiteFields};
+use crate::error::{ApiResult, AppError};
+use axum::extract::{Path, State};
+use axum::http::StatusCode;
+use axum::routing::get;
+use axum::{Json, Router};
+use serde_json::{Map, Value, json};
+
+pub fn router() -> Router<AppState> {
+    Router::new()
+        .route("/api/v1/sites", get(list).post(create))
+        .route("/api/v1/sites/{id}", get(show).patch(update))
+}
+
+/// Fields a site body may carry.
+pub const FIELDS: &[&str] = &["name", "units", "archived"];
+
+/// Reads a site from a JSON object over `base` (the stored site, or empty for a new one).
+/// Returns the fields and the `archived` flag if given; every problem when refused.
+pub fn read(
+    map: &Map<String, Value>,
+    base: SiteFields,
+) -> Result<(SiteFields, Option<bool>), Vec<AppError>> {
+    let f = Fields::new(map);
+    let mut p = Problems::default();
+    let mut site = base;
+    p.take(f.deny_unknown(FIELDS));
+    if touched(map, "name")
+        && let Some(name) = p.take(required_text(&f, "name", 120))
+    {
+        site.name = name;
+    }
+    if touched(map, "units")
+        && let Some(units) = p.take(f.choice("units", &["us", "metric"]))
+    {
+        site.units = units.to_string();
+    }
+    let archived = p.take(f.opt_bool("archived")).flatten();
+    if site.name.is_empty() && !p.has("name") {
+        p.push(AppError::field("name", "required", "a site name is required"));
+    }
+    p.finish((site, archived))
+}
+
+/// A site as the API shows it.
+pub fn to_json(site: &Site) -> Value {
+    json!({
+        "id": site.id,
+        "name": site.name,
+        "units": site.units,
+        "machine_count": site.machine_count,
+        "created_at": site.created_at,
+        "updated_at": site.updated_at,
+        "archived": site.archived_at.is_some(),
+        "archived_at": site.archived_at,
+    })
+}
+
+async fn create(
+    State(state): State<AppState>,
+    actor: Actor,
+    Body(body): Body,
+) -> ApiResult<(StatusCode, Json<Value>)> {
+    let empty = SiteFields {
+        name: String::new(),
+        units: "metric".into(),
+    };
+    let (fields, archived) = read(&body, empty).map_err(first)?;
+    if archived == Some(true) {
+        return Err(AppError::field(
+            "archived",
+            "invalid",
+            "a new site cannot be archived",
+        ));
+    }
+    let mut tx = state.db.begin().await?;
+    let site = sites::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
+    tx.commit().await?;
+    Ok((StatusCode::CREATED, Json(to_json(&site))))
+}
+
+async fn list(State(state): State<AppState>, params: Params) -> ApiResult<Json<Value>> {
+    params.deny_unknown(&["archived", "limit", "cursor"])?;
+    let window = params.window()?;
+    let page = sites::list(&state.db, params.flag("archived")?, window).await?;
+    Ok(Json(page_json(page, to_json)))
+}
+
+async fn show(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
+    let id = path_id(&id, "site")?;
+    let site = sites::find(&state.db, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("site {id}")))?;
+    Ok(Json(to_json(&site)))
+}
+
+async fn update(
+    State(state): State<AppState>,
+    actor: Actor,
+    Path(id): Path<String>,
+    Body(body): Body,
+) -> ApiResult<Json<Value>> {
+    let id = path_id(&id, "site")?;
+    let mut tx = state.db.begin().await?;
+    let before = sites::get(&mut tx, id)
+        .await?
+        .ok_or_else(|| AppError::not_found(format!("site {id}")))?;
+    let (fields, archived) = read(&body, before.fields()).map_err(first)?;
+    let site = sites::update(&mut tx, &actor.name, id, &fields, archived).await?;
+    tx.commit().await?;
+    Ok(Json(to_json(&site)))
+}

@@ -1,0 +1,72 @@
+//! The `loadhold user add` and `loadhold token create` commands.
+
+use super::{Actor, Role, password, tokens, users};
+use crate::db::Db;
+use std::io::{IsTerminal, Read};
+
+fn parse_role(text: &str) -> Result<Role, String> {
+    Role::parse(text.trim())
+        .ok_or_else(|| format!("unknown role \"{text}\": use technician, manager or admin"))
+}
+
+/// The password piped on standard input (first line), or `None` when standard input is a
+/// terminal or empty.
+fn password_from_stdin() -> Result<Option<String>, String> {
+    let stdin = std::io::stdin();
+    if stdin.is_terminal() {
+        return Ok(None);
+    }
+    let mut text = String::new();
+    stdin
+        .lock()
+        .read_to_string(&mut text)
+        .map_err(|e| format!("cannot read the password from standard input: {e}"))?;
+    let first = text.lines().next().unwrap_or("").trim_end_matches('\r');
+    Ok(Some(first.to_string()).filter(|p| !p.is_empty()))
+}
+
+/// `loadhold user add NAME --role ROLE [--display-name TEXT]`: the password comes from
+/// standard input, or is generated and printed once. Returns what to print.
+pub async fn user_add(
+    db: &Db,
+    username: &str,
+    role: &str,
+    display_name: Option<&str>,
+) -> Result<String, String> {
+    let role = parse_role(role)?;
+    let (secret, generated) = match password_from_stdin()? {
+        Some(given) => (given, false),
+        None => (password::generate().map_err(|e| e.to_string())?, true),
+    };
+    let user = users::create(
+        db,
+        &Actor::system(),
+        username,
+        display_name.unwrap_or(""),
+        role,
+        &secret,
+    )
+    .await
+    .map_err(|e| format!("cannot add user {username}: {e}"))?;
+    let mut out = format!(
+        "added user {} ({}) as {}",
+        user.username, user.display_name, user.role
+    );
+    if generated {
+        out.push_str(&format!("\npassword (shown once, store it now): {secret}"));
+    }
+    Ok(out)
+}
+
+/// `loadhold token create NAME [--role ROLE]`: returns the token, to print once.
+pub async fn token_create(db: &Db, name: &str, role: Option<&str>) -> Result<String, String> {
+    let role = parse_role(role.unwrap_or("technician"))?;
+    let (stored, token) = tokens::create(db, &Actor::system(), name, role)
+        .await
+        .map_err(|e| format!("cannot create token {name}: {e}"))?;
+    eprintln!(
+        "token \"{}\" ({}) created; it is shown once, store it now:",
+        stored.name, stored.role
+    );
+    Ok(token)
+}

@@ -1,0 +1,260 @@
+//! Pressure-decay tests: a cylinder blocked at end of stroke, one end pressurised, its
+//! pressure read at start and end with the oil temperatures. Stored like drift tests: readings
+//! as SI columns and as sent to the engineering core, the analysis as computed. Append-only.
+
+use super::drift_tests::Stored;
+use super::write::{WriteError, is_unique_violation, snapshot};
+use super::{Db, audit};
+use serde::Serialize;
+use sqlx::SqliteConnection;
+
+#[derive(Clone, Debug, PartialEq, Serialize, sqlx::FromRow)]
+pub struct DecayTest {
+    pub id: i64,
+    pub cylinder_id: i64,
+    pub procedure_id: Option<i64>,
+    pub tested_at: String,
+    pub technician: String,
+    pub pressurised_end: String,
+    pub duration_s: f64,
+    pub pressure_start_pa: f64,
+    pub pressure_end_pa: f64,
+    pub other_pressure_start_pa: Option<f64>,
+    pub other_pressure_end_pa: Option<f64>,
+    pub oil_temperature_start_k: f64,
+    pub oil_temperature_end_k: f64,
+    pub ambient_temperature_k: Option<f64>,
+    pub limit_pressure_drop_pa: Option<f64>,
+    pub limit_period_s: Option<f64>,
+    pub readings_json: String,
+    pub analysis_json: String,
+    pub calc_version: String,
+    pub verdict: String,
+    pub diagnosis: String,
+    pub pressure_change_pa: f64,
+    pub thermal_pressure_change_pa: f64,
+    pub scaled_drop_pa: f64,
+    pub scaled_period_s: f64,
+    pub flags: String,
+    pub notes: Option<String>,
+    pub client_token: Option<String>,
+    pub amends_id: Option<i64>,
+    pub created_at: String,
+    pub created_by: String,
+    pub amended_by_id: Option<i64>,
+}
+
+impl DecayTest {
+    pub fn flag_list(&self) -> Vec<String> {
+        serde_json::from_str(&self.flags).unwrap_or_default()
+    }
+
+    pub fn in_force(&self) -> bool {
+        self.amended_by_id.is_none()
+    }
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NewDecayTest {
+    pub cylinder_id: i64,
+    pub procedure_id: Option<i64>,
+    pub tested_at: String,
+    pub technician: String,
+    pub pressurised_end: String,
+    pub duration_s: f64,
+    pub pressure_start_pa: f64,
+    pub pressure_end_pa: f64,
+    pub other_pressure_start_pa: Option<f64>,
+    pub other_pressure_end_pa: Option<f64>,
+    pub oil_temperature_start_k: f64,
+    pub oil_temperature_end_k: f64,
+    pub ambient_temperature_k: Option<f64>,
+    pub limit_pressure_drop_pa: Option<f64>,
+    pub limit_period_s: Option<f64>,
+    pub readings_json: String,
+    pub analysis_json: String,
+    pub calc_version: String,
+    pub verdict: String,
+    pub diagnosis: String,
+    pub pressure_change_pa: f64,
+    pub thermal_pressure_change_pa: f64,
+    pub scaled_drop_pa: f64,
+    pub scaled_period_s: f64,
+    pub flags: Vec<String>,
+    pub notes: Option<String>,
+    pub client_token: Option<String>,
+    pub amends_id: Option<i64>,
+}
+
+macro_rules! select_decay_test {
+    () => {
+        "SELECT t.id, t.cylinder_id, t.procedure_id, t.tested_at, t.technician,
+            t.pressurised_end, t.duration_s, t.pressure_start_pa, t.pressure_end_pa,
+            t.other_pressure_start_pa, t.other_pressure_end_pa, t.oil_temperature_start_k,
+            t.oil_temperature_end_k, t.ambient_temperature_k, t.limit_pressure_drop_pa,
+            t.limit_period_s, t.readings_json, t.analysis_json, t.calc_version, t.verdict,
+            t.diagnosis, t.pressure_change_pa, t.thermal_pressure_change_pa, t.scaled_drop_pa,
+            t.scaled_period_s, t.flags, t.notes, t.client_token, t.amends_id, t.created_at,
+            t.created_by,
+            (SELECT MIN(a.id) FROM decay_tests a WHERE a.amends_id = t.id) AS amended_by_id
+         FROM decay_tests t "
+    };
+}
+
+pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<DecayTest>, sqlx::Error> {
+    sqlx::query_as::<_, DecayTest>(concat!(select_decay_test!(), "WHERE t.id = ?"))
+        .bind(id)
+        .fetch_optional(conn)
+        .await
+}
+
+pub async fn find(db: &Db, id: i64) -> Result<Option<DecayTest>, sqlx::Error> {
+    let mut conn = db.acquire().await?;
+    get(&mut conn, id).await
+}
+
+pub async fn by_token(
+    conn: &mut SqliteConnection,
+    token: &str,
+) -> Result<Option<DecayTest>, sqlx::Error> {
+    sqlx::query_as::<_, DecayTest>(concat!(select_decay_test!(), "WHERE t.client_token = ?"))
+        .bind(token)
+        .fetch_optional(conn)
+        .await
+}
+
+/// Every decay test of a cylinder, amended ones included, oldest first (the latest 1000).
+pub async fn of_cylinder(db: &Db, cylinder_id: i64) -> Result<Vec<DecayTest>, sqlx::Error> {
+    let mut rows = sqlx::query_as::<_, DecayTest>(concat!(
+        select_decay_test!(),
+        "WHERE t.cylinder_id = ? ORDER BY t.tested_at DESC, t.id DESC LIMIT 1000"
+    ))
+    .bind(cylinder_id)
+    .fetch_all(db)
+    .await?;
+    rows.reverse();
+    Ok(rows)
+}
+
+async fn check_amends(
+    conn: &mut SqliteConnection,
+    cylinder_id: i64,
+    amends: i64,
+) -> Result<DecayTest, WriteError> {
+    let old = get(conn, amends)
+        .await?
+        .ok_or_else(|| WriteError::invalid("amends", format!("there is no decay test {amends}")))?;
+    if old.cylinder_id != cylinder_id {
+        return Err(WriteError::invalid(
+            "amends",
+            format!("decay test {amends} belongs to another cylinder"),
+        ));
+    }
+    if let Some(later) = old.amended_by_id {
+        return Err(WriteError::conflict(
+            "amends",
+            format!("decay test {amends} is already amended by {later}; amend that one instead"),
+        ));
+    }
+    Ok(old)
+}
+
+fn repeated(found: DecayTest, cylinder_id: i64) -> Result<Stored<DecayTest>, WriteError> {
+    if found.cylinder_id == cylinder_id {
+        Ok(Stored::Existing(found))
+    } else {
+        Err(WriteError::conflict(
+            "client_token",
+            "this client token was already used for another cylinder's test",
+        ))
+    }
+}
+
+/// Stores a decay test with its audit row, inside the caller's transaction; a client token
+/// already stored returns that record and writes nothing.
+pub async fn insert(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    t: &NewDecayTest,
+) -> Result<Stored<DecayTest>, WriteError> {
+    if let Some(token) = &t.client_token
+        && let Some(found) = by_token(conn, token).await?
+    {
+        return repeated(found, t.cylinder_id);
+    }
+    let before = match t.amends_id {
+        Some(amends) => Some(check_amends(conn, t.cylinder_id, amends).await?),
+        None => None,
+    };
+    let flags = serde_json::to_string(&t.flags).unwrap_or_else(|_| "[]".into());
+    let inserted = sqlx::query_scalar::<_, i64>(
+        "INSERT INTO decay_tests (cylinder_id, procedure_id, tested_at, technician,
+            pressurised_end, duration_s, pressure_start_pa, pressure_end_pa,
+            other_pressure_start_pa, other_pressure_end_pa, oil_temperature_start_k,
+            oil_temperature_end_k, ambient_temperature_k, limit_pressure_drop_pa, limit_period_s,
+            readings_json, analysis_json, calc_version, verdict, diagnosis, pressure_change_pa,
+            thermal_pressure_change_pa, scaled_drop_pa, scaled_period_s, flags, notes,
+            client_token, amends_id, created_at, created_by)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?,
+            ?, ?, ?, ?) RETURNING id",
+    )
+    .bind(t.cylinder_id)
+    .bind(t.procedure_id)
+    .bind(&t.tested_at)
+    .bind(&t.technician)
+    .bind(&t.pressurised_end)
+    .bind(t.duration_s)
+    .bind(t.pressure_start_pa)
+    .bind(t.pressure_end_pa)
+    .bind(t.other_pressure_start_pa)
+    .bind(t.other_pressure_end_pa)
+    .bind(t.oil_temperature_start_k)
+    .bind(t.oil_temperature_end_k)
+    .bind(t.ambient_temperature_k)
+    .bind(t.limit_pressure_drop_pa)
+    .bind(t.limit_period_s)
+    .bind(&t.readings_json)
+    .bind(&t.analysis_json)
+    .bind(&t.calc_version)
+    .bind(&t.verdict)
+    .bind(&t.diagnosis)
+    .bind(t.pressure_change_pa)
+    .bind(t.thermal_pressure_change_pa)
+    .bind(t.scaled_drop_pa)
+    .bind(t.scaled_period_s)
+    .bind(&flags)
+    .bind(&t.notes)
+    .bind(&t.client_token)
+    .bind(t.amends_id)
+    .bind(super::now_rfc3339())
+    .bind(actor)
+    .fetch_one(&mut *conn)
+    .await;
+    let id = match inserted {
+        Ok(id) => id,
+        Err(e) if is_unique_violation(&e) => {
+            if let Some(token) = &t.client_token
+                && let Some(found) = by_token(conn, token).await?
+            {
+                return repeated(found, t.cylinder_id);
+            }
+            return Err(e.into());
+        }
+        Err(e) => return Err(e.into()),
+    };
+    let stored = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("decay test"))?;
+    let action = if before.is_some() { "amend" } else { "create" };
+    audit::record(
+        conn,
+        actor,
+        action,
+        "decay_test",
+        id,
+        before.as_ref().map(snapshot).as_ref(),
+        Some(&snapshot(&stored)),
+    )
+    .await?;
+    Ok(Stored::Created(stored))
+}

@@ -1,0 +1,295 @@
+//! Inspections of a machine (periodic or frequent). Append-only: a correction is a new row
+//! that amends the old. A `fail` puts the machine out of service in the same transaction and
+//! names itself as the cause; a later `pass` or `pass_with_deficiencies` puts it back.
+
+use super::drift_tests::Stored;
+use super::write::{WriteError, is_unique_violation, snapshot};
+use super::{Db, audit, machines};
+use serde::Serialize;
+use sqlx::SqliteConnection;
+
+pub const KINDS: [&str; 2] = ["periodic", "frequent"];
+pub const RESULTS: [&str; 3] = ["pass", "pass_with_deficiencies", "fail"];
+
+/// A stored inspection, with the id of the record that amends it (if any).
+#[derive(Clone, Debug, PartialEq, Serialize, sqlx::FromRow)]
+pub struct Inspection {
+    pub id: i64,
+    pub machine_id: i64,
+    pub kind: String,
+    pub performed_on: String,
+    pub hour_meter_h: Option<f64>,
+    pub inspector: String,
+    pub result: String,
+    pub items_json: String,
+    pub deficiencies: Option<String>,
+    pub corrective_action: Option<String>,
+    pub client_token: Option<String>,
+    pub amends_id: Option<i64>,
+    pub created_at: String,
+    pub created_by: String,
+    pub amended_by_id: Option<i64>,
+}
+
+impl Inspection {
+    pub fn in_force(&self) -> bool {
+        self.amended_by_id.is_none()
+    }
+}
+
+/// An inspection to store.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NewInspection {
+    pub machine_id: i64,
+    pub kind: String,
+    pub performed_on: String,
+    pub hour_meter_h: Option<f64>,
+    pub inspector: String,
+    pub result: String,
+    /// A JSON array of `{"item", "outcome", "leakage_class", "note"}`.
+    pub items_json: String,
+    pub deficiencies: Option<String>,
+    pub corrective_action: Option<String>,
+    pub client_token: Option<String>,
+    pub amends_id: Option<i64>,
+}
+
+macro_rules! select_inspection {
+    () => {
+        "SELECT i.id, i.machine_id, i.kind, i.performed_on, i.hour_meter_h, i.inspector,
+            i.result, i.items_json, i.deficiencies, i.corrective_action, i.client_token,
+            i.amends_id, i.created_at, i.created_by,
+            (SELECT MIN(a.id) FROM inspections a WHERE a.amends_id = i.id) AS amended_by_id
+         FROM inspections i "
+    };
+}
+
+pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<Inspection>, sqlx::Error> {
+    sqlx::query_as::<_, Inspection>(concat!(select_inspection!(), "WHERE i.id = ?"))
+        .bind(id)
+        .fetch_optional(conn)
+        .await
+}
+
+pub async fn find(db: &Db, id: i64) -> Result<Option<Inspection>, sqlx::Error> {
+    let mut conn = db.acquire().await?;
+    get(&mut conn, id).await
+}
+
+pub async fn by_token(
+    conn: &mut SqliteConnection,
+    token: &str,
+) -> Result<Option<Inspection>, sqlx::Error> {
+    sqlx::query_as::<_, Inspection>(concat!(select_inspection!(), "WHERE i.client_token = ?"))
+        .bind(token)
+        .fetch_optional(conn)
+        .await
+}
+
+/// Every inspection of a machine, amended ones included, newest first (at most 1000).
+pub async fn of_machine(db: &Db, machine_id: i64) -> Result<Vec<Inspection>, sqlx::Error> {
+    sqlx::query_as::<_, Inspection>(concat!(
+        select_inspection!(),
+        "WHERE i.machine_id = ? ORDER BY i.performed_on DESC, i.id DESC LIMIT 1000"
+    ))
+    .bind(machine_id)
+    .fetch_all(db)
+    .await
+}
+
+async fn check_amends(
+    conn: &mut SqliteConnection,
+    machine_id: i64,
+    amends: i64,
+) -> Result<Inspection, WriteError> {
+    let old = get(conn, amends)
+        .await?
+        .ok_or_else(|| WriteError::invalid("amends", format!("there is no inspection {amends}")))?;
+    if old.machine_id != machine_id {
+        return Err(WriteError::invalid(
+            "amends",
+            format!("inspection {amends} belongs to another machine"),
+        ));
+    }
+    if let Some(later) = old.amended_by_id {
+        return Err(WriteError::conflict(
+            "amends",
+            format!("inspection {amends} is already amended by {later}; amend that one instead"),
+        ));
+    }
+    Ok(old)
+}
+
+fn repeated(found: Inspection, machine_id: i64) -> Result<Stored<Inspection>, WriteError> {
+    if found.machine_id == machine_id {
+        Ok(Stored::Existing(found))
+    } else {
+        Err(WriteError::conflict(
+            "client_token",
+            "this client token was already used for another machine's inspection",
+        ))
+    }
+}
+
+/// The inspection that put the machine out of service, if that is why it is out.
+async fn cause(conn: &mut SqliteConnection, machine_id: i64) -> Result<Option<i64>, sqlx::Error> {
+    sqlx::query_scalar::<_, Option<i64>>(
+        "SELECT out_of_service_inspection_id FROM machines
+         WHERE id = ? AND status = 'out_of_service'",
+    )
+    .bind(machine_id)
+    .fetch_optional(conn)
+    .await
+    .map(Option::flatten)
+}
+
+/// Applies a stored inspection to its machine's status: a fail takes it out of service (the
+/// reason names the record) unless a later inspection already passed; a pass clears an out-of-service that an inspection caused, when
+/// it is not older than that inspection or when it corrects it. The hour meter moves forward
+/// when the inspection read more than the machine's last reading.
+async fn apply_to_machine(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    stored: &Inspection,
+) -> Result<(), WriteError> {
+    let machine = machines::get(conn, stored.machine_id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
+    if stored.result == "fail" && !passed_since(conn, stored).await? {
+        let reason = format!(
+            "failed {} inspection #{} on {} by {}",
+            stored.kind, stored.id, stored.performed_on, stored.inspector
+        );
+        machines::set_status(
+            conn,
+            actor,
+            stored.machine_id,
+            Some((&reason, &stored.performed_on)),
+        )
+        .await?;
+        set_cause(conn, stored.machine_id, Some(stored.id)).await?;
+    } else if let Some(cause_id) = cause(conn, stored.machine_id).await? {
+        let failed = get(conn, cause_id).await?;
+        let clears = failed.is_some_and(|f| {
+            stored.amends_id == Some(f.id) || stored.performed_on >= f.performed_on
+        });
+        if clears {
+            machines::set_status(conn, actor, stored.machine_id, None).await?;
+            set_cause(conn, stored.machine_id, None).await?;
+        }
+    }
+    if let Some(hours) = stored.hour_meter_h {
+        let newer = machine.hour_meter_h.is_none_or(|h| hours > h)
+            && machine
+                .hour_meter_read_on
+                .as_deref()
+                .is_none_or(|d| stored.performed_on.as_str() >= d);
+        if newer {
+            let current = machines::get(conn, stored.machine_id)
+                .await?
+                .ok_or(WriteError::NotFound("machine"))?;
+            let mut fields = current.fields();
+            fields.hour_meter_h = Some(hours);
+            fields.hour_meter_read_on = Some(stored.performed_on.clone());
+            machines::update(conn, actor, stored.machine_id, &fields, None).await?;
+        }
+    }
+    Ok(())
+}
+
+/// True when an inspection in force of the same machine, performed after `failed`, passed:
+/// a fail entered late for an earlier date does not undo a later pass.
+async fn passed_since(conn: &mut SqliteConnection, failed: &Inspection) -> Result<bool, sqlx::Error> {
+    let later: i64 = sqlx::query_scalar(
+        "SELECT COUNT(*) FROM inspections i
+         WHERE i.machine_id = ? AND i.id <> ? AND i.result <> 'fail' AND i.performed_on > ?
+           AND NOT EXISTS (SELECT 1 FROM inspections a WHERE a.amends_id = i.id)",
+    )
+    .bind(failed.machine_id)
+    .bind(failed.id)
+    .bind(&failed.performed_on)
+    .fetch_one(conn)
+    .await?;
+    Ok(later > 0)
+}
+
+async fn set_cause(
+    conn: &mut SqliteConnection,
+    machine_id: i64,
+    inspection_id: Option<i64>,
+) -> Result<(), sqlx::Error> {
+    sqlx::query("UPDATE machines SET out_of_service_inspection_id = ? WHERE id = ?")
+        .bind(inspection_id)
+        .bind(machine_id)
+        .execute(conn)
+        .await?;
+    Ok(())
+}
+
+/// Stores an inspection with its audit row and applies it to the machine's status, inside the
+/// caller's transaction. A client token already stored returns that record and writes nothing.
+pub async fn insert(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    i: &NewInspection,
+) -> Result<Stored<Inspection>, WriteError> {
+    if let Some(token) = &i.client_token
+        && let Some(found) = by_token(conn, token).await?
+    {
+        return repeated(found, i.machine_id);
+    }
+    machines::check_usable(conn, "machine_id", i.machine_id).await?;
+    let before = match i.amends_id {
+        Some(amends) => Some(check_amends(conn, i.machine_id, amends).await?),
+        None => None,
+    };
+    let inserted = sqlx::query_scalar::<_, i64>(
+        "INSERT INTO inspections (machine_id, kind, performed_on, hour_meter_h, inspector,
+            result, items_json, deficiencies, corrective_action, client_token, amends_id,
+            created_at, created_by)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+    )
+    .bind(i.machine_id)
+    .bind(&i.kind)
+    .bind(&i.performed_on)
+    .bind(i.hour_meter_h)
+    .bind(&i.inspector)
+    .bind(&i.result)
+    .bind(&i.items_json)
+    .bind(&i.deficiencies)
+    .bind(&i.corrective_action)
+    .bind(&i.client_token)
+    .bind(i.amends_id)
+    .bind(super::now_rfc3339())
+    .bind(actor)
+    .fetch_one(&mut *conn)
+    .await;
+    let id = match inserted {
+        Ok(id) => id,
+        Err(e) if is_unique_violation(&e) => {
+            if let Some(token) = &i.client_token
+                && let Some(found) = by_token(conn, token).await?
+            {
+                return repeated(found, i.machine_id);
+            }
+            return Err(e.into());
+        }
+        Err(e) => return Err(e.into()),
+    };
+    let stored = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("inspection"))?;
+    let action = if before.is_some() { "amend" } else { "create" };
+    audit::record(
+        conn,
+        actor,
+        action,
+        "inspection",
+        id,
+        before.as_ref().map(snapshot).as_ref(),
+        Some(&snapshot(&stored)),
+    )
+    .await?;
+    apply_to_machine(conn, actor, &stored).await?;
+    Ok(Stored::Created(stored))
+}

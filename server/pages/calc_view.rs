@@ -1,0 +1,539 @@
+//! View structs of the calculator page: the form's inputs and the reports as words and
+//! figures in the chosen units. No formulas here: every figure comes from `calc`.
+
+use crate::calc::analysis::{CylinderInput, CylinderReport, component_words, scenario_words};
+use crate::calc::bypass::Outcome;
+use crate::calc::decay::DecayReport;
+use crate::calc::drift::DriftReport;
+use crate::calc::quantity::{self, Dimension as D, UnitSystem};
+use crate::calc::words;
+
+/// One text input of the form.
+#[derive(Clone, Debug)]
+pub struct FieldView {
+    pub name: String,
+    pub label: &'static str,
+    pub hint: &'static str,
+    pub value: String,
+    pub error: String,
+}
+
+/// `(name, label, metric hint, US hint)`.
+pub type Spec = (&'static str, &'static str, &'static str, &'static str);
+
+pub const CYLINDER: &[Spec] = &[
+    ("bore", "Bore", "e.g. 100 mm", "e.g. 4 in"),
+    ("rod", "Rod diameter", "e.g. 70 mm", "e.g. 2 in"),
+    ("stroke", "Stroke", "e.g. 1000 mm", "e.g. 24 in"),
+    (
+        "position",
+        "Position (extension)",
+        "optional; half the stroke if empty",
+        "optional; half the stroke if empty",
+    ),
+    ("load", "Held load", "e.g. 100 kN", "e.g. 10000 lbf"),
+    (
+        "supply_pressure",
+        "Supply (relief) pressure",
+        "optional, e.g. 210 bar",
+        "optional, e.g. 3000 psi",
+    ),
+    (
+        "flow",
+        "Supply flow",
+        "optional, e.g. 60 L/min",
+        "optional, e.g. 15 gpm",
+    ),
+];
+
+pub const OPTIONS: &[Spec] = &[
+    (
+        "cap_line_volume",
+        "Oil in the cap-end line",
+        "optional, e.g. 0.5 L",
+        "optional, e.g. 30 in3",
+    ),
+    (
+        "rod_line_volume",
+        "Oil in the rod-end line",
+        "optional, e.g. 0.5 L",
+        "optional, e.g. 30 in3",
+    ),
+    (
+        "cap_line_expansion",
+        "Cap-end hose swell",
+        "optional, e.g. 0.5 cm3/bar",
+        "optional, e.g. 0.002 in3/psi",
+    ),
+    (
+        "rod_line_expansion",
+        "Rod-end hose swell",
+        "optional, e.g. 0.5 cm3/bar",
+        "optional, e.g. 0.002 in3/psi",
+    ),
+    (
+        "bulk_modulus",
+        "Oil bulk modulus",
+        "default 1.5 GPa (mineral oil)",
+        "default 1.5 GPa (mineral oil)",
+    ),
+    (
+        "oil_expansion",
+        "Oil expansion coefficient",
+        "default 0.0007 1/degC",
+        "default 0.0007 1/degC",
+    ),
+    (
+        "temperature_rise",
+        "Trapped-oil warming",
+        "default 10 degC",
+        "default 18 degF",
+    ),
+    (
+        "pilot_ratio",
+        "Counterbalance pilot ratio",
+        "optional number, e.g. 4",
+        "optional number, e.g. 4",
+    ),
+    (
+        "tube_outside_diameter",
+        "Tube outside diameter",
+        "optional, e.g. 121 mm",
+        "optional, e.g. 4.75 in",
+    ),
+    (
+        "tube_yield",
+        "Tube yield strength",
+        "optional, e.g. 355 MPa",
+        "optional, e.g. 51 ksi",
+    ),
+    (
+        "tube_safety_factor",
+        "Tube safety factor",
+        "number, default 2",
+        "number, default 2",
+    ),
+    (
+        "buckling_length",
+        "Rod free length at full extension",
+        "default twice the stroke",
+        "default twice the stroke",
+    ),
+    (
+        "buckling_safety_factor",
+        "Buckling safety factor",
+        "number, default 3",
+        "number, default 3",
+    ),
+];
+
+pub const RATINGS: &[Spec] = &[
+    (
+        "ratings.cap_line",
+        "Cap-end line rating",
+        "optional, e.g. 210 bar",
+        "optional, e.g. 3000 psi",
+    ),
+    (
+        "ratings.rod_line",
+        "Rod-end line rating",
+        "optional, e.g. 210 bar",
+        "optional, e.g. 3000 psi",
+    ),
+    (
+        "ratings.cylinder",
+        "Cylinder rating",
+        "optional, e.g. 250 bar",
+        "optional, e.g. 3600 psi",
+    ),
+];
+
+pub const DRIFT: &[Spec] = &[
+    ("duration", "Test duration", "e.g. 10 min", "e.g. 10 min"),
+    (
+        "drift",
+        "Measured drift",
+        "e.g. 2 mm, or give the positions",
+        "e.g. 0.08 in, or give the positions",
+    ),
+    (
+        "start_position",
+        "Position at start",
+        "e.g. 500 mm",
+        "e.g. 12 in",
+    ),
+    (
+        "end_position",
+        "Position at end",
+        "e.g. 498 mm",
+        "e.g. 11.92 in",
+    ),
+    (
+        "oil_temperature_start",
+        "Oil temperature at start",
+        "e.g. 50 degC",
+        "e.g. 120 degF",
+    ),
+    (
+        "oil_temperature_end",
+        "Oil temperature at end",
+        "e.g. 44 degC",
+        "e.g. 110 degF",
+    ),
+    (
+        "cap_pressure_start",
+        "Cap-end pressure at start",
+        "optional, e.g. 127 bar",
+        "optional, e.g. 1000 psi",
+    ),
+    (
+        "cap_pressure_end",
+        "Cap-end pressure at end",
+        "optional",
+        "optional",
+    ),
+    (
+        "rod_pressure_start",
+        "Rod-end pressure at start",
+        "optional",
+        "optional",
+    ),
+    (
+        "rod_pressure_end",
+        "Rod-end pressure at end",
+        "optional",
+        "optional",
+    ),
+    (
+        "limit.distance",
+        "Allowed drift",
+        "optional, e.g. 5 mm",
+        "optional, e.g. 0.2 in",
+    ),
+    ("limit.per", "… per", "e.g. 10 min", "e.g. 10 min"),
+];
+
+pub const DECAY: &[Spec] = &[
+    (
+        "decay.duration",
+        "Test duration",
+        "e.g. 10 min",
+        "e.g. 10 min",
+    ),
+    (
+        "decay.pressure_start",
+        "Pressure at start",
+        "e.g. 200 bar",
+        "e.g. 3000 psi",
+    ),
+    (
+        "decay.pressure_end",
+        "Pressure at end",
+        "e.g. 185 bar",
+        "e.g. 2800 psi",
+    ),
+    (
+        "decay.oil_temperature_start",
+        "Oil temperature at start",
+        "e.g. 40 degC",
+        "e.g. 104 degF",
+    ),
+    (
+        "decay.oil_temperature_end",
+        "Oil temperature at end",
+        "e.g. 39 degC",
+        "e.g. 102 degF",
+    ),
+    (
+        "decay.other_pressure_start",
+        "Other end's pressure at start",
+        "optional",
+        "optional",
+    ),
+    (
+        "decay.other_pressure_end",
+        "Other end's pressure at end",
+        "optional",
+        "optional",
+    ),
+    (
+        "decay.limit.pressure",
+        "Allowed drop",
+        "optional, e.g. 10 bar",
+        "optional, e.g. 150 psi",
+    ),
+    ("decay.limit.per", "… per", "e.g. 10 min", "e.g. 10 min"),
+];
+
+/// The inputs of one form section, filled with what was typed.
+pub fn fields(specs: &[Spec], value: &dyn Fn(&str) -> String, units: UnitSystem) -> Vec<FieldView> {
+    specs
+        .iter()
+        .map(|&(name, label, metric, us)| FieldView {
+            name: name.to_string(),
+            label,
+            hint: if units == UnitSystem::Us { us } else { metric },
+            value: value(name),
+            error: String::new(),
+        })
+        .collect()
+}
+
+/// The label of a field for the error summary (the field name when it has no input).
+pub fn label_of(field: &str) -> String {
+    [CYLINDER, OPTIONS, RATINGS, DRIFT, DECAY]
+        .iter()
+        .flat_map(|s| s.iter())
+        .find(|s| s.0 == field)
+        .map_or_else(
+            || match field {
+                "load_direction" => "Load direction".to_string(),
+                "end_condition" => "Rod end condition".to_string(),
+                other => other.to_string(),
+            },
+            |s| s.1.to_string(),
+        )
+}
+
+/// A figure with its label.
+#[derive(Clone, Debug)]
+pub struct Row {
+    pub label: String,
+    pub value: String,
+}
+
+fn row(label: &str, value: String) -> Row {
+    Row {
+        label: label.to_string(),
+        value,
+    }
+}
+
+/// One ratings check.
+#[derive(Clone, Debug)]
+pub struct CheckView {
+    pub component: String,
+    pub scenario: &'static str,
+    pub pressure: String,
+    pub rating: String,
+    pub status: &'static str,
+}
+
+/// The cylinder report for the page.
+#[derive(Clone, Debug)]
+pub struct CylinderView {
+    pub geometry: Vec<Row>,
+    pub holding: Vec<Row>,
+    pub bypass_outcome: &'static str,
+    pub bypass_explanation: &'static str,
+    pub bypass: Vec<Row>,
+    pub circuit: Vec<Row>,
+    pub strength: Vec<Row>,
+    pub checks: Vec<CheckView>,
+    pub hazards: Vec<String>,
+    pub cautions: Vec<String>,
+}
+
+fn ratio(v: f64) -> String {
+    quantity::significant(v, 4)
+}
+
+/// The cylinder report in words and figures.
+pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) -> CylinderView {
+    let p = |si: f64| words::q(si, D::Pressure, units);
+    let len = |si: f64| words::q(si, D::Length, units);
+    let area = |si: f64| words::q(si, D::Area, units);
+    let b = &r.seal_bypass;
+    let mut bypass = Vec::new();
+    if let (Some(fp), Some(f), Some(s)) =
+        (b.final_pressure, b.intensification_factor, b.settle_drift)
+    {
+        bypass.push(row("Pressure in both ends", p(fp)));
+        bypass.push(row("Times the holding pressure", ratio(f)));
+        bypass.push(row("Settle drift before it stops", len(s)));
+    }
+    let mut circuit = Vec::new();
+    if let Some(rod) = r.rod_side_intensification {
+        circuit.push(row(
+            "Rod-end pressure, rod port blocked, cap end at supply",
+            p(rod),
+        ));
+    }
+    if let Some(s) = r.speeds {
+        let v = |si: f64| words::q(si, D::Speed, units);
+        let q = |si: f64| words::q(si, D::Flow, units);
+        circuit.push(row("Extend speed", v(s.extend)));
+        circuit.push(row("Retract speed", v(s.retract)));
+        circuit.push(row("Regenerative extend speed", v(s.regenerative_extend)));
+        circuit.push(row(
+            "Flow out of the cap end while retracting",
+            q(s.retract_return_flow),
+        ));
+    }
+    if let Some(f) = r.forces {
+        circuit.push(row(
+            "Regenerative extend force",
+            words::q(f.regenerative_extend, D::Force, units),
+        ));
+    }
+    let cb = &r.counterbalance;
+    circuit.push(row(
+        "Counterbalance valve setting (1.3 x load pressure)",
+        p(cb.setting),
+    ));
+    if let (Some(ratio_), Some(pilot)) = (cb.pilot_ratio, cb.pilot_opening_pressure) {
+        circuit.push(row(
+            &format!("Pilot pressure to open it at {ratio_}:1"),
+            p(pilot),
+        ));
+    }
+    circuit.push(row(
+        &format!(
+            "Trapped oil warmed {}: cap end / rod end",
+            words::q(r.heating.temperature_rise, D::TemperatureChange, units)
+        ),
+        format!(
+            "{} / {}",
+            p(r.heating.cap_pressure),
+            p(r.heating.rod_pressure)
+        ),
+    ));
+    let mut strength = Vec::new();
+    if let Some(t) = r.tube {
+        strength.push(row(
+            "Tube hoop stress at the bore (Lamé), at the highest pressure",
+            p(t.hoop_stress),
+        ));
+        strength.push(row(
+            "Allowable (yield over safety factor)",
+            format!(
+                "{} ({})",
+                p(t.allowable_stress),
+                t.status.as_str().replace('_', " ")
+            ),
+        ));
+    }
+    if let Some(k) = r.buckling {
+        let f = |si: f64| words::q(si, D::Force, units);
+        strength.push(row(
+            &format!(
+                "Rod buckling load (Euler, K = {}, length {})",
+                k.end_condition.factor(),
+                len(k.length)
+            ),
+            f(k.critical_load),
+        ));
+        strength.push(row(
+            "Allowable against the compressive load",
+            format!(
+                "{} against {} ({})",
+                f(k.allowable_load),
+                f(k.load),
+                k.status.as_str().replace('_', " ")
+            ),
+        ));
+    }
+    CylinderView {
+        geometry: vec![
+            row("Cap (piston) area", area(r.areas.cap)),
+            row("Rod area", area(r.areas.rod)),
+            row("Annulus area", area(r.areas.annulus)),
+            row("Area ratio (cap / annulus)", ratio(r.areas.ratio)),
+            row("Position used", len(r.position)),
+        ],
+        holding: vec![
+            row(
+                "Holding end",
+                input.load_direction.holding_end().as_str().to_string(),
+            ),
+            row("Cap-end pressure", p(r.holding.cap_pressure)),
+            row("Rod-end pressure", p(r.holding.rod_pressure)),
+        ],
+        bypass_outcome: b.outcome.as_str(),
+        bypass_explanation: match b.outcome {
+            Outcome::Intensifies => {
+                "Both ends rise to the load over the rod area; the load settles a little and stops."
+            }
+            Outcome::RunsAway => {
+                "No pressure can hold a load that pulls the rod out: the cylinder runs out and both ends fall below atmospheric (cavitation). There is no final pressure."
+            }
+        },
+        bypass,
+        circuit,
+        strength,
+        checks: r
+            .checks
+            .iter()
+            .map(|c| CheckView {
+                component: component_words(&c.component),
+                scenario: scenario_words(c.scenario),
+                pressure: p(c.pressure),
+                rating: p(c.rating),
+                status: c.status.as_str(),
+            })
+            .collect(),
+        hazards: r.hazards.clone(),
+        cautions: r.cautions.iter().map(|c| c.to_string()).collect(),
+    }
+}
+
+/// A test analysis for the page.
+#[derive(Clone, Debug)]
+pub struct DriftView {
+    pub rows: Vec<Row>,
+    pub verdict: &'static str,
+    pub diagnosis: &'static str,
+    pub reasoning: Vec<String>,
+    pub hazards: Vec<String>,
+    pub cautions: Vec<String>,
+}
+
+pub type DecayView = DriftView;
+
+/// The drift-test report in words and figures.
+pub fn drift(r: &DriftReport, units: UnitSystem) -> DriftView {
+    let len = |si: f64| words::q(si, D::Length, units);
+    DriftView {
+        rows: vec![
+            row("Measured drift", len(r.drift)),
+            row("Drift per minute", len(r.drift_rate * 60.0)),
+            row(
+                "Explained by the oil's temperature change",
+                len(r.thermal_drift),
+            ),
+            row("Left for leakage", len(r.leak_drift)),
+            row("Equivalent leakage", words::flow(r.leak_flow, units)),
+            row(
+                &format!("Drift scaled to {}", words::duration(r.scaled_per)),
+                len(r.scaled_drift),
+            ),
+        ],
+        verdict: r.verdict.as_str(),
+        diagnosis: r.diagnosis.as_str(),
+        reasoning: r.reasoning.clone(),
+        hazards: r.hazards.clone(),
+        cautions: r.cautions.iter().map(|c| c.to_string()).collect(),
+    }
+}
+
+/// The pressure-decay report in words and figures.
+pub fn decay(r: &DecayReport, units: UnitSystem) -> DecayView {
+    let p = |si: f64| words::q(si, D::Pressure, units);
+    DriftView {
+        rows: vec![
+            row("Measured change", p(r.measured_change)),
+            row(
+                "Explained by the oil's temperature change",
+                p(r.thermal_change),
+            ),
+            row("Left for leakage", p(r.leak_change)),
+            row("Equivalent leakage", words::flow(r.leak_flow, units)),
+            row("Drop scaled to the limit's period", p(r.scaled_drop)),
+        ],
+        verdict: r.verdict.as_str(),
+        diagnosis: r.diagnosis.as_str(),
+        reasoning: r.reasoning.clone(),
+        hazards: r.hazards.clone(),
+        cautions: r.cautions.iter().map(|c| c.to_string()).collect(),
+    }
+}

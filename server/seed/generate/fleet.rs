@@ -1,0 +1,448 @@
+//! The invented scale fleet: machine kinds with their cylinders, sites, people, and one
+//! machine's registry rows (machine, cylinders, hose assemblies). Every figure here is our own
+//! invention for load testing, chosen to look like a rental yard's fleet; none is a maker's.
+
+use super::batch::Val;
+use super::rng::Rng;
+use time::{Date, Duration};
+
+/// One cylinder position on a kind of machine.
+pub struct CylinderPlan {
+    pub function: &'static str,
+    /// Bore range, mm.
+    pub bore_mm: (f64, f64),
+    /// Stroke range, m.
+    pub stroke_m: (f64, f64),
+    /// `retract` (the load pushes the rod in) or `extend`.
+    pub direction: &'static str,
+    /// Share of machines of the kind that have this cylinder.
+    pub present: f64,
+}
+
+/// A kind of machine.
+pub struct KindPlan {
+    pub kind: &'static str,
+    pub code: &'static str,
+    pub relief_bar: f64,
+    /// Hours run per year, range.
+    pub hours_per_year: (f64, f64),
+    pub periodic_hours: Option<f64>,
+    pub frequent_days: i64,
+    /// Drift allowed by the kind's hold-test procedure, mm per 10 minutes (invented).
+    pub limit_mm: f64,
+    pub cylinders: &'static [CylinderPlan],
+}
+
+const fn cyl(
+    function: &'static str,
+    bore_mm: (f64, f64),
+    stroke_m: (f64, f64),
+    direction: &'static str,
+    present: f64,
+) -> CylinderPlan {
+    CylinderPlan {
+        function,
+        bore_mm,
+        stroke_m,
+        direction,
+        present,
+    }
+}
+
+pub const KINDS: [KindPlan; 8] = [
+    KindPlan {
+        kind: "excavator",
+        code: "EX",
+        relief_bar: 350.0,
+        hours_per_year: (900.0, 1700.0),
+        periodic_hours: Some(1000.0),
+        frequent_days: 90,
+        limit_mm: 5.0,
+        cylinders: &[
+            cyl("boom lift, left", (110.0, 160.0), (1.0, 1.6), "retract", 1.0),
+            cyl("boom lift, right", (110.0, 160.0), (1.0, 1.6), "retract", 1.0),
+            cyl("arm", (100.0, 150.0), (1.2, 1.8), "extend", 1.0),
+            cyl("bucket", (90.0, 130.0), (0.9, 1.2), "extend", 1.0),
+        ],
+    },
+    KindPlan {
+        kind: "wheel loader",
+        code: "WL",
+        relief_bar: 280.0,
+        hours_per_year: (800.0, 1500.0),
+        periodic_hours: Some(1000.0),
+        frequent_days: 90,
+        limit_mm: 6.0,
+        cylinders: &[
+            cyl("lift arm, left", (125.0, 160.0), (0.7, 0.9), "retract", 1.0),
+            cyl("lift arm, right", (125.0, 160.0), (0.7, 0.9), "retract", 1.0),
+            cyl("bucket tilt", (140.0, 180.0), (0.5, 0.7), "extend", 1.0),
+            cyl("steering", (63.0, 80.0), (0.3, 0.45), "retract", 0.8),
+        ],
+    },
+    KindPlan {
+        kind: "telehandler",
+        code: "TH",
+        relief_bar: 270.0,
+        hours_per_year: (500.0, 1100.0),
+        periodic_hours: Some(500.0),
+        frequent_days: 90,
+        limit_mm: 4.0,
+        cylinders: &[
+            cyl("boom lift", (110.0, 140.0), (1.0, 1.4), "retract", 1.0),
+            cyl("boom extension", (63.0, 90.0), (2.5, 4.0), "extend", 1.0),
+            cyl("carriage tilt", (80.0, 100.0), (0.4, 0.6), "extend", 1.0),
+            cyl("frame levelling", (63.0, 80.0), (0.2, 0.3), "retract", 0.7),
+        ],
+    },
+    KindPlan {
+        kind: "scissor lift",
+        code: "SL",
+        relief_bar: 200.0,
+        hours_per_year: (150.0, 400.0),
+        periodic_hours: None,
+        frequent_days: 90,
+        limit_mm: 3.0,
+        cylinders: &[
+            cyl("platform lift, lower", (80.0, 110.0), (1.0, 1.4), "retract", 1.0),
+            cyl("platform lift, upper", (80.0, 110.0), (1.0, 1.4), "retract", 0.6),
+            cyl("steering", (40.0, 50.0), (0.1, 0.15), "retract", 1.0),
+        ],
+    },
+    KindPlan {
+        kind: "boom lift",
+        code: "BL",
+        relief_bar: 230.0,
+        hours_per_year: (200.0, 500.0),
+        periodic_hours: None,
+        frequent_days: 90,
+        limit_mm: 3.0,
+        cylinders: &[
+            cyl("main boom lift", (110.0, 150.0), (1.0, 1.5), "retract", 1.0),
+            cyl("main boom extension", (63.0, 90.0), (3.0, 5.0), "extend", 1.0),
+            cyl("jib lift", (63.0, 80.0), (0.4, 0.6), "retract", 1.0),
+            cyl("platform levelling", (50.0, 63.0), (0.2, 0.3), "retract", 1.0),
+            cyl("steering", (40.0, 50.0), (0.1, 0.15), "retract", 1.0),
+        ],
+    },
+    KindPlan {
+        kind: "skid steer",
+        code: "SK",
+        relief_bar: 220.0,
+        hours_per_year: (400.0, 900.0),
+        periodic_hours: Some(500.0),
+        frequent_days: 90,
+        limit_mm: 6.0,
+        cylinders: &[
+            cyl("lift arm, left", (63.0, 80.0), (0.7, 0.9), "retract", 1.0),
+            cyl("lift arm, right", (63.0, 80.0), (0.7, 0.9), "retract", 1.0),
+            cyl("tilt, left", (63.0, 80.0), (0.35, 0.5), "extend", 1.0),
+            cyl("tilt, right", (63.0, 80.0), (0.35, 0.5), "extend", 1.0),
+        ],
+    },
+    KindPlan {
+        kind: "tipper trailer",
+        code: "TT",
+        relief_bar: 180.0,
+        hours_per_year: (100.0, 300.0),
+        periodic_hours: None,
+        frequent_days: 90,
+        limit_mm: 8.0,
+        cylinders: &[cyl("body tip", (110.0, 160.0), (2.0, 3.5), "retract", 1.0)],
+    },
+    KindPlan {
+        kind: "loader crane",
+        code: "LC",
+        relief_bar: 320.0,
+        hours_per_year: (300.0, 800.0),
+        periodic_hours: None,
+        frequent_days: 30,
+        limit_mm: 3.0,
+        cylinders: &[
+            cyl("main boom", (140.0, 200.0), (0.8, 1.2), "retract", 1.0),
+            cyl("outer boom", (110.0, 160.0), (0.8, 1.2), "extend", 1.0),
+            cyl("extension", (63.0, 90.0), (1.5, 3.0), "extend", 1.0),
+            cyl("slew", (80.0, 100.0), (0.3, 0.5), "retract", 0.5),
+            cyl("stabiliser, left", (80.0, 110.0), (0.4, 0.6), "retract", 1.0),
+            cyl("stabiliser, right", (80.0, 110.0), (0.4, 0.6), "retract", 1.0),
+        ],
+    },
+];
+
+/// Invented place names and yard words for sites (24 x 17 = 408 distinct names).
+const PLACES: [&str; 24] = [
+    "Alderby", "Brackwell", "Cinderford Vale", "Dunmere", "Elsworth", "Fallowfield", "Garthby",
+    "Hollinsend", "Ivybank", "Jessamy", "Kettlewick", "Larchmoor", "Millbrook", "Netherlow",
+    "Ormsley", "Pennyrigg", "Quarrington", "Redlynch", "Saltcote", "Thornleigh", "Upwater",
+    "Vennford", "Wrenhallow", "Yarrowby",
+];
+const YARDS: [&str; 17] = [
+    "Yard", "Depot", "Works", "Crossing", "Sidings", "Wharf", "Gate", "Lane Yard", "North Yard",
+    "South Yard", "Quarry Depot", "Road Depot", "Park", "Field Yard", "Bridge Depot",
+    "Mill Yard", "Junction",
+];
+const FIRST: [&str; 20] = [
+    "Ada", "Bram", "Cleo", "Dev", "Esme", "Finn", "Greta", "Hal", "Ines", "Jory", "Kit", "Lena",
+    "Milo", "Nia", "Otto", "Pia", "Quin", "Rhea", "Sol", "Tove",
+];
+const LAST: [&str; 20] = [
+    "Ashby", "Brennan", "Colley", "Dunn", "Ellery", "Frain", "Gale", "Hurst", "Irwin", "Jessop",
+    "Kerr", "Lowe", "Marsh", "Nolan", "Orme", "Pryce", "Quayle", "Rook", "Stroud", "Tait",
+];
+
+/// Circuits of hoses not fitted to a cylinder port.
+const CIRCUITS: [&str; 4] = [
+    "pump to main valve",
+    "main valve return",
+    "pilot supply",
+    "case drain",
+];
+
+/// A generated site with the people who sign its records.
+pub struct Site {
+    pub id: i64,
+    pub name: String,
+    pub units: &'static str,
+    pub people: Vec<String>,
+}
+
+/// How many sites a fleet of `n` machines is spread over.
+pub fn site_count(n: u32) -> usize {
+    ((n / 250) as usize).clamp(1, PLACES.len() * YARDS.len())
+}
+
+/// The sites, deterministic from the seed.
+pub fn sites(seed: u64, count: usize, first_id: i64) -> Vec<Site> {
+    (0..count)
+        .map(|i| {
+            let mut rng = Rng::for_item(seed, 10, i as u64);
+            let name = format!("{} {}", PLACES[i % PLACES.len()], YARDS[i / PLACES.len() % YARDS.len()]);
+            let units = if rng.chance(0.2) { "us" } else { "metric" };
+            let people = (0..8)
+                .map(|_| format!("{} {}", rng.pick(&FIRST), rng.pick(&LAST)))
+                .collect();
+            Site {
+                id: first_id + i as i64,
+                name,
+                units,
+                people,
+            }
+        })
+        .collect()
+}
+
+/// `YYYY-MM-DDThh:mm:00Z`.
+pub fn stamp(day: Date, hour: i64, minute: i64) -> String {
+    format!("{day}T{hour:02}:{minute:02}:00Z")
+}
+
+pub fn days(n: i64) -> Duration {
+    Duration::days(n)
+}
+
+/// Rounds `x` to a multiple of `step`.
+pub fn round_to(x: f64, step: f64) -> f64 {
+    (x / step).round() * step
+}
+
+/// A generated cylinder, as the history needs it.
+pub struct CylinderSim {
+    pub id: i64,
+    pub function: &'static str,
+    pub bore: f64,
+    pub rod: f64,
+    pub stroke: f64,
+    pub direction: &'static str,
+    pub max_load: f64,
+    pub rated: Option<f64>,
+    pub tube_od: Option<f64>,
+    pub tube_yield: Option<f64>,
+    pub end_condition: Option<&'static str>,
+    pub interval_days: Option<i64>,
+    /// Rated hoses on its ports: (label, port, working pressure Pa).
+    pub hoses: Vec<(String, &'static str, f64)>,
+}
+
+/// One cylinder of `plan` on machine `machine_id`: its row and what the history needs.
+pub fn cylinder(
+    rng: &mut Rng,
+    id: i64,
+    machine_id: i64,
+    plan: &CylinderPlan,
+    relief: f64,
+    created: &str,
+) -> (CylinderSim, Vec<Val>) {
+    let bore_mm = round_to(rng.range(plan.bore_mm.0, plan.bore_mm.1), 5.0);
+    let rod_mm = round_to(bore_mm * rng.range(0.5, 0.7), 5.0).min(bore_mm - 15.0);
+    let stroke = round_to(rng.range(plan.stroke_m.0, plan.stroke_m.1), 0.01);
+    let (bore, rod) = (bore_mm / 1000.0, rod_mm / 1000.0);
+    let cap_area = std::f64::consts::PI / 4.0 * bore * bore;
+    let annulus = cap_area - std::f64::consts::PI / 4.0 * rod * rod;
+    let held_area = if plan.direction == "retract" { cap_area } else { annulus };
+    let max_load = round_to(rng.range(0.25, 0.6) * relief * held_area, 100.0);
+    let rated = (!rng.chance(0.1)).then(|| round_to(relief * rng.range(1.1, 1.5), 10e5));
+    let tube_od = rng
+        .chance(0.6)
+        .then(|| round_to(bore * rng.range(1.12, 1.25), 0.001));
+    let tube_yield = tube_od.and_then(|_| rng.chance(0.7).then(|| *rng.pick(&[355e6, 460e6])));
+    let end_condition = match rng.below(20) {
+        0 => None,
+        1 | 2 => Some("fixed_pinned"),
+        _ => Some("pinned_pinned"),
+    };
+    let interval_days = match rng.below(20) {
+        0 => None,
+        1..=6 => Some(180),
+        _ => Some(365),
+    };
+    let serial = rng
+        .chance(0.6)
+        .then(|| format!("C{:08X}", rng.next_u64() as u32));
+    let row = vec![
+        id.into(),
+        machine_id.into(),
+        plan.function.into(),
+        bore.into(),
+        rod.into(),
+        stroke.into(),
+        plan.direction.into(),
+        max_load.into(),
+        rated.into(),
+        tube_od.into(),
+        tube_yield.into(),
+        end_condition.into(),
+        serial.into(),
+        interval_days.into(),
+        created.into(),
+        created.into(),
+    ];
+    let sim = CylinderSim {
+        id,
+        function: plan.function,
+        bore,
+        rod,
+        stroke,
+        direction: plan.direction,
+        max_load,
+        rated,
+        tube_od,
+        tube_yield,
+        end_condition,
+        interval_days,
+        hoses: Vec::new(),
+    };
+    (sim, row)
+}
+
+/// SAE 100R2AT maximum working pressure by dash size, Pa (from memory of the SAE J517 table:
+/// -4 5000 psi, -6 4000, -8 3500, -10 2750, -12 2250, -16 2000). 100R13 is 5000 psi and
+/// 100R15 6000 psi in every size (from memory).
+fn hose_rating(spec: &str, dash: u32) -> f64 {
+    let psi = match spec {
+        "SAE 100R15" => 6000.0,
+        "SAE 100R13" => 5000.0,
+        _ => match dash {
+            4 => 5000.0,
+            6 => 4000.0,
+            8 => 3500.0,
+            10 => 2750.0,
+            12 => 2250.0,
+            _ => 2000.0,
+        },
+    };
+    psi * 6894.757
+}
+
+/// Where a hose goes: a cylinder's port or a circuit.
+pub enum HosePlace<'a> {
+    Port(&'a CylinderSim, &'static str),
+    Circuit(&'static str),
+}
+
+/// A hose assembly fitted when the machine was registered, and perhaps replaced since (the old
+/// assembly archived on the day). Returns the rows and, for a rated port hose, its rating.
+#[allow(clippy::too_many_arguments)]
+pub fn hose_rows(
+    rng: &mut Rng,
+    next_id: &mut i64,
+    machine_id: i64,
+    place: HosePlace<'_>,
+    relief: f64,
+    registered: Date,
+    today: Date,
+) -> (Vec<Vec<Val>>, Option<(String, &'static str, f64)>) {
+    let bore = match place {
+        HosePlace::Port(c, _) => c.bore,
+        HosePlace::Circuit(_) => 0.1,
+    };
+    let dash: u32 = match bore {
+        b if b <= 0.063 => 6,
+        b if b <= 0.1 => 8,
+        b if b <= 0.14 => 12,
+        _ => 16,
+    };
+    let spec = if rng.chance(0.04) {
+        "SAE 100R2AT"
+    } else if relief >= 300e5 {
+        "SAE 100R15"
+    } else if relief >= 230e5 {
+        "SAE 100R13"
+    } else {
+        "SAE 100R2AT"
+    };
+    let rating = hose_rating(spec, dash);
+    let length = round_to(rng.range(0.5, 4.0), 0.05);
+    let (cylinder_id, port, circuit) = match place {
+        HosePlace::Port(c, port) => (Some(c.id), Some(port), None),
+        HosePlace::Circuit(name) => (None, None, Some(name)),
+    };
+    let mut rows = Vec::new();
+    let mut installed = registered;
+    let history = (today - registered).whole_days().max(2);
+    let mut replaced_on = rng
+        .chance(0.15)
+        .then(|| registered + days(rng.int(history / 5, history - 1)));
+    let last_id = loop {
+        let id = *next_id;
+        *next_id += 1;
+        let archived = replaced_on.take();
+        let made = installed - days(rng.int(30, 200));
+        let replace_by = if rng.chance(0.04) {
+            Some(installed + days(rng.int(2 * 365, 5 * 365)))
+        } else if rng.chance(0.5) {
+            Some(installed + days(6 * 365))
+        } else {
+            None
+        };
+        let created = stamp(installed, 9, 0);
+        rows.push(vec![
+            id.into(),
+            machine_id.into(),
+            cylinder_id.into(),
+            port.into(),
+            circuit.into(),
+            spec.into(),
+            format!("-{dash:02}").into(),
+            (f64::from(dash) / 16.0 * 0.0254).into(),
+            length.into(),
+            rating.into(),
+            format!("{}-{:02}", made.year(), u8::from(made.month())).into(),
+            installed.to_string().into(),
+            replace_by.map(|d| d.to_string()).into(),
+            created.clone().into(),
+            archived.map_or(created, |d| stamp(d, 16, 0)).into(),
+            archived.map(|d| stamp(d, 16, 0)).into(),
+        ]);
+        match archived {
+            Some(day) => installed = day,
+            None => break id,
+        }
+    };
+    let rated = port.map(|p| (format!("H{last_id} ({p} port)"), p, rating));
+    (rows, rated)
+}
+
+/// The `i`-th circuit name for hoses not on a cylinder port.
+pub fn circuit_name(i: usize) -> &'static str {
+    CIRCUITS[i % CIRCUITS.len()]
+}

@@ -1,0 +1,498 @@
+//! Accounts: the login page, sessions, logout, throttling, bearer tokens, the CLI, the demo logins.
+
+use crate::helpers::{TEST_PASSWORD, TestApp, csrf_field, urlencode};
+use axum::body::Body;
+use axum::extract::ConnectInfo;
+use axum::http::{Request, StatusCode, header};
+use loadhold::auth::{Role, cookie, secret};
+use std::net::SocketAddr;
+
+fn location(headers: &axum::http::HeaderMap) -> String {
+    headers
+        .get(header::LOCATION)
+        .and_then(|v| v.to_str().ok())
+        .unwrap_or("")
+        .to_string()
+}
+
+fn set_cookie(headers: &axum::http::HeaderMap) -> String {
+    headers
+        .get(header::SET_COOKIE)
+        .and_then(|v| v.to_str().ok())
+        .unwrap_or("")
+        .to_string()
+}
+
+/// POSTs the login form from a given client address.
+async fn login_from(app: &TestApp, address: &str, username: &str, password: &str) -> StatusCode {
+    let body = format!(
+        "username={}&password={}",
+        urlencode(username),
+        urlencode(password)
+    );
+    let addr: SocketAddr = address.parse().expect("address");
+    let request = Request::builder()
+        .method("POST")
+        .uri("/login")
+        .header(header::CONTENT_TYPE, "application/x-www-form-urlencoded")
+        .extension(ConnectInfo(addr))
+        .body(Body::from(body))
+        .expect("request");
+    app.send(request).await.0
+}
+
+#[tokio::test]
+async fn login_page_shows_a_form_with_username_and_password_fields() {
+    let app = TestApp::anonymous().await;
+    let (status, _, page) = app.get_page("/login?next=/machines").await;
+    assert_eq!(status, StatusCode::OK);
+    assert!(page.contains(r#"name="username""#), "{page}");
+    assert!(page.contains(r#"name="password""#));
+    assert!(page.contains(r#"type="password""#));
+    assert!(
+        page.contains(r#"name="next" value="/machines""#),
+        "next kept in the form"
+    );
+}
+
+#[tokio::test]
+async fn a_right_password_starts_an_httponly_samesite_session_and_returns_to_next() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    let (status, headers, _) = app
+        .post_form(
+            "/login",
+            &[
+                ("username", "Hollis"),
+                ("password", TEST_PASSWORD),
+                ("next", "/machines/7"),
+            ],
+        )
+        .await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+    assert_eq!(location(&headers), "/machines/7");
+    let cookie = set_cookie(&headers);
+    assert!(cookie.starts_with("loadhold_session="), "{cookie}");
+    assert!(cookie.contains("HttpOnly"), "{cookie}");
+    assert!(cookie.contains("SameSite=Lax"), "{cookie}");
+    assert!(cookie.contains("Path=/"), "{cookie}");
+    assert!(cookie.contains("Max-Age=43200"), "12 h: {cookie}");
+    assert!(
+        !cookie.contains("Secure"),
+        "not Secure unless configured: {cookie}"
+    );
+    // The database keeps only the SHA-256 of the cookie's token.
+    let token = cookie["loadhold_session=".len()..]
+        .split(';')
+        .next()
+        .unwrap_or("");
+    assert_eq!(token.len(), 64);
+    let stored: Vec<String> = sqlx::query_scalar("SELECT token_hash FROM sessions")
+        .fetch_all(&app.db)
+        .await
+        .expect("sessions");
+    assert_eq!(stored, vec![secret::token_hash(token)]);
+    assert_ne!(stored[0], token);
+}
+
+#[test]
+fn the_session_cookie_is_secure_when_the_server_is_behind_tls() {
+    let value = cookie::session("abc", 60, true);
+    assert!(value.ends_with("; Secure"), "{value}");
+    assert!(!cookie::session("abc", 60, false).contains("Secure"));
+    assert!(cookie::cleared(false).contains("Max-Age=0"));
+}
+
+#[tokio::test]
+async fn a_wrong_password_and_an_unknown_user_get_the_same_refusal() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    let wrong = app
+        .post_form(
+            "/login",
+            &[("username", "hollis"), ("password", "not-the-password")],
+        )
+        .await;
+    let unknown = app
+        .post_form(
+            "/login",
+            &[("username", "nobody"), ("password", TEST_PASSWORD)],
+        )
+        .await;
+    assert_eq!(wrong.0, StatusCode::UNAUTHORIZED);
+    assert_eq!(unknown.0, StatusCode::UNAUTHORIZED);
+    assert!(wrong.1.get(header::SET_COOKIE).is_none());
+    let message = "That user name and password do not match an enabled account.";
+    assert!(wrong.2.contains(message) && unknown.2.contains(message));
+    assert!(
+        wrong.2.contains(r#"value="hollis""#),
+        "user name kept in the form"
+    );
+}
+
+#[tokio::test]
+async fn next_is_followed_only_to_local_paths() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    for (next, expected) in [
+        ("//evil.example/x", "/"),
+        ("https://evil.example/", "/"),
+        ("/\\evil.example", "/"),
+        ("/login", "/"),
+        ("", "/"),
+        ("/reports/due?site=2", "/reports/due?site=2"),
+    ] {
+        let (status, headers, _) = app
+            .post_form_as_is(
+                "/login",
+                &[
+                    ("username", "hollis"),
+                    ("password", TEST_PASSWORD),
+                    ("next", next),
+                ],
+            )
+            .await;
+        assert_eq!(status, StatusCode::SEE_OTHER, "next {next}");
+        assert_eq!(location(&headers), expected, "next {next}");
+    }
+}
+
+#[tokio::test]
+async fn five_failures_throttle_the_account_but_not_another() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    app.add_user("marek", Role::Manager).await;
+    for _ in 0..5 {
+        let status = login_from(&app, "10.0.0.5:4000", "hollis", "wrong-password-1").await;
+        assert_eq!(status, StatusCode::UNAUTHORIZED);
+    }
+    // Even the right password is refused now, without being checked.
+    let (status, _, page) = app
+        .post_form(
+            "/login",
+            &[("username", "hollis"), ("password", TEST_PASSWORD)],
+        )
+        .await;
+    assert_eq!(status, StatusCode::TOO_MANY_REQUESTS);
+    assert!(
+        page.contains("Too many failed logins for this account"),
+        "{page}"
+    );
+    assert_eq!(
+        login_from(&app, "10.0.0.5:4000", "marek", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+}
+
+#[tokio::test]
+async fn a_success_resets_the_account_count() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    for _ in 0..4 {
+        login_from(&app, "10.0.0.5:4000", "hollis", "wrong-password-1").await;
+    }
+    assert_eq!(
+        login_from(&app, "10.0.0.5:4000", "hollis", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+    for _ in 0..4 {
+        login_from(&app, "10.0.0.5:4000", "hollis", "wrong-password-1").await;
+    }
+    assert_eq!(
+        login_from(&app, "10.0.0.5:4000", "hollis", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+}
+
+#[tokio::test]
+async fn twenty_failures_from_one_address_throttle_that_address_only() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    for n in 0..20 {
+        let status = login_from(
+            &app,
+            "192.0.2.9:5000",
+            &format!("guess{n}"),
+            "wrong-password-1",
+        )
+        .await;
+        assert_eq!(status, StatusCode::UNAUTHORIZED);
+    }
+    assert_eq!(
+        login_from(&app, "192.0.2.9:5001", "hollis", TEST_PASSWORD).await,
+        StatusCode::TOO_MANY_REQUESTS,
+        "same address, other port"
+    );
+    assert_eq!(
+        login_from(&app, "192.0.2.10:5000", "hollis", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+    let recorded: i64 =
+        sqlx::query_scalar("SELECT COUNT(*) FROM login_attempts WHERE address = '192.0.2.9'")
+            .fetch_one(&app.db)
+            .await
+            .expect("attempts");
+    assert_eq!(
+        recorded, 20,
+        "the refused 21st try was not checked or counted"
+    );
+}
+
+#[tokio::test]
+async fn passwords_are_stored_as_argon2id_phc_strings() {
+    let app = TestApp::anonymous().await;
+    app.add_user("hollis", Role::Technician).await;
+    let hash: String =
+        sqlx::query_scalar("SELECT password_hash FROM users WHERE username = 'hollis'")
+            .fetch_one(&app.db)
+            .await
+            .expect("hash");
+    assert!(
+        hash.starts_with("$argon2id$v=19$m=19456,t=2,p=1$"),
+        "{hash}"
+    );
+    assert!(!hash.contains(TEST_PASSWORD));
+}
+
+#[tokio::test]
+async fn logout_ends_the_session_and_the_old_cookie_stops_working() {
+    let app = TestApp::session(Role::Admin).await;
+    assert_eq!(app.get_page("/admin").await.0, StatusCode::OK);
+    let (status, headers, _) = app.post_form("/logout", &[]).await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+    assert_eq!(location(&headers), "/login");
+    assert!(set_cookie(&headers).contains("Max-Age=0"), "cookie cleared");
+    let (status, headers, _) = app.get_page("/admin").await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+    assert_eq!(location(&headers), "/login?next=/admin");
+    let left: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM sessions")
+        .fetch_one(&app.db)
+        .await
+        .expect("sessions");
+    assert_eq!(left, 0);
+}
+
+#[tokio::test]
+async fn the_page_header_names_the_logged_in_user_and_offers_logout() {
+    let app = TestApp::session(Role::Technician).await;
+    let (_, _, page) = app.get_page("/login").await;
+    assert!(page.contains("technician · technician"), "{page}");
+    assert!(page.contains(r#"action="/logout""#));
+    assert_eq!(csrf_field(&page), app.csrf);
+}
+
+#[tokio::test]
+async fn a_disabled_user_can_no_longer_log_in_and_their_session_ends() {
+    let admin = TestApp::session(Role::Admin).await;
+    let id = admin.add_user("hollis", Role::Technician).await;
+    let mut tech = admin.client();
+    assert_eq!(
+        tech.login("hollis", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+    let (status, headers, _) = admin
+        .post_form(&format!("/admin/users/{id}/disable"), &[])
+        .await;
+    assert_eq!(status, StatusCode::SEE_OTHER, "{headers:?}");
+    assert_eq!(
+        tech.get_page("/machines").await.0,
+        StatusCode::SEE_OTHER,
+        "sent to login"
+    );
+    assert_eq!(
+        tech.login("hollis", TEST_PASSWORD).await,
+        StatusCode::UNAUTHORIZED
+    );
+    // Enabled again, the same password works.
+    admin
+        .post_form(&format!("/admin/users/{id}/enable"), &[])
+        .await;
+    assert_eq!(
+        tech.login("hollis", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
+}
+
+#[tokio::test]
+async fn a_token_made_on_the_admin_page_is_shown_once_works_and_can_be_revoked() {
+    let admin = TestApp::session(Role::Admin).await;
+    let (status, _, page) = admin
+        .post_form(
+            "/admin/tokens",
+            &[("name", "telematics feed"), ("role", "technician")],
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{page}");
+    let at = page.find("lh_").expect("token on the page");
+    let token: String = page[at..]
+        .chars()
+        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
+        .collect();
+    assert_eq!(token.len(), 3 + 64);
+    let (_, _, later) = admin.get_page("/admin").await;
+    assert!(!later.contains(&token), "shown once only");
+    assert!(later.contains(&token[..11]), "its prefix is listed");
+
+    let mut client = admin.client();
+    client.auth = vec![("authorization".into(), format!("Bearer {token}"))];
+    assert_eq!(client.get_json("/api/v1/sites").await.0, StatusCode::OK);
+    let used: Option<String> =
+        sqlx::query_scalar("SELECT last_used_at FROM api_tokens WHERE name = 'telematics feed'")
+            .fetch_one(&admin.db)
+            .await
+            .expect("token row");
+    assert!(used.is_some(), "last use recorded");
+
+    let id: i64 = sqlx::query_scalar("SELECT id FROM api_tokens WHERE name = 'telematics feed'")
+        .fetch_one(&admin.db)
+        .await
+        .expect("token id");
+    let (status, _, _) = admin
+        .post_form(&format!("/admin/tokens/{id}/revoke"), &[])
+        .await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+    let (status, body) = client.get_json("/api/v1/sites").await;
+    assert_eq!(status, StatusCode::UNAUTHORIZED, "{body}");
+    assert_eq!(body["error"]["code"], "unauthorized");
+}
+
+#[tokio::test]
+async fn a_made_up_or_malformed_bearer_token_is_refused() {
+    let mut app = TestApp::anonymous().await;
+    for value in [
+        "Bearer lh_0000",
+        "Bearer ",
+        "Basic YWRtaW46YWRtaW4=",
+        "Bearer not-a-token",
+    ] {
+        app.auth = vec![("authorization".into(), value.into())];
+        let (status, body) = app.get_json("/api/v1/machines").await;
+        assert_eq!(status, StatusCode::UNAUTHORIZED, "{value}: {body}");
+    }
+}
+
+fn loadhold(args: &[&str], stdin: &str) -> (bool, String, String) {
+    use std::io::Write;
+    use std::process::{Command, Stdio};
+    let mut child = Command::new(env!("CARGO_BIN_EXE_loadhold"))
+        .args(args)
+        .env("LOADHOLD_LOG", "error")
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("run loadhold");
+    child
+        .stdin
+        .take()
+        .expect("stdin")
+        .write_all(stdin.as_bytes())
+        .expect("write stdin");
+    let out = child.wait_with_output().expect("wait");
+    (
+        out.status.success(),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[tokio::test]
+async fn cli_user_add_takes_the_password_from_stdin_or_prints_a_generated_one() {
+    let app = TestApp::anonymous().await;
+    let db = app.dir.join("test.sqlite").display().to_string();
+    let (ok, out, err) = loadhold(
+        &["user", "add", "hollis", "--role", "technician", "--db", &db],
+        "piped-in-password-7\n",
+    );
+    assert!(ok, "{out}{err}");
+    assert!(
+        !out.contains("piped-in-password-7"),
+        "a given password is not echoed"
+    );
+    let mut client = app.client();
+    assert_eq!(
+        client.login("hollis", "piped-in-password-7").await,
+        StatusCode::SEE_OTHER
+    );
+
+    let (ok, out, err) = loadhold(
+        &["user", "add", "marek", "--role", "manager", "--db", &db],
+        "",
+    );
+    assert!(ok, "{out}{err}");
+    let line = out
+        .lines()
+        .find(|l| l.starts_with("password"))
+        .expect("generated password printed");
+    let generated = line.rsplit(' ').next().unwrap_or("");
+    assert_eq!(generated.len(), 19, "{line}");
+    assert_eq!(
+        client.login("marek", generated).await,
+        StatusCode::SEE_OTHER
+    );
+
+    let (ok, _, err) = loadhold(&["user", "add", "x1", "--role", "boss", "--db", &db], "");
+    assert!(!ok && err.contains("technician, manager or admin"), "{err}");
+    let (ok, _, err) = loadhold(
+        &["user", "add", "shorty", "--role", "admin", "--db", &db],
+        "short\n",
+    );
+    assert!(!ok && err.contains("at least 10"), "{err}");
+}
+
+#[tokio::test]
+async fn cli_token_create_prints_a_token_once_that_works_with_its_role() {
+    let app = TestApp::anonymous().await;
+    let db = app.dir.join("test.sqlite").display().to_string();
+    let (ok, out, err) = loadhold(&["token", "create", "yard feed", "--db", &db], "");
+    assert!(ok, "{out}{err}");
+    let token = out.trim();
+    assert!(token.starts_with("lh_"), "{out}");
+    assert!(err.contains("shown once"), "{err}");
+    let mut client = app.client();
+    client.auth = vec![("authorization".into(), format!("Bearer {token}"))];
+    assert_eq!(client.get_json("/api/v1/machines").await.0, StatusCode::OK);
+    let (status, _) = client
+        .post_json(
+            "/api/v1/sites",
+            &serde_json::json!({"name": "X", "units": "us"}),
+        )
+        .await;
+    assert_eq!(
+        status,
+        StatusCode::FORBIDDEN,
+        "the default role is technician"
+    );
+    let stored: String = sqlx::query_scalar("SELECT token_hash FROM api_tokens")
+        .fetch_one(&app.db)
+        .await
+        .expect("row");
+    assert_eq!(stored, secret::token_hash(token));
+}
+
+#[tokio::test]
+async fn the_demo_prints_logins_that_work_for_each_role() {
+    let app = TestApp::anonymous().await;
+    let printed = loadhold::auth::demo::create_demo_users(&app.db)
+        .await
+        .expect("demo users");
+    let again = loadhold::auth::demo::create_demo_users(&app.db)
+        .await
+        .expect("idempotent");
+    assert_eq!(printed, again);
+    let mut seen = 0;
+    for line in printed.lines().filter(|l| l.contains(" user ")) {
+        let words: Vec<&str> = line.split_whitespace().collect();
+        let (role, user, password) = (words[0], words[2], words[4]);
+        let mut client = app.client();
+        assert_eq!(
+            client.login(user, password).await,
+            StatusCode::SEE_OTHER,
+            "{line}"
+        );
+        let (_, _, page) = client.get_page("/login").await;
+        assert!(page.contains(&format!("· {role}</span>")), "{role}: {page}");
+        seen += 1;
+    }
+    assert_eq!(seen, 3, "{printed}");
+}

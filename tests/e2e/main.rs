@@ -1,0 +1,9 @@
+//! End-to-end suite: the real `loadhold` binary on 127.0.0.1 with its own SQLite file,
+//! driven through real sockets and a real headless Chromium. Screenshots of every browser
+//! step and the server logs are kept under `target/e2e-artifacts/<test>/`.
+
+mod browser;
+mod crash;
+mod http;
+mod server;
+mod smoke;

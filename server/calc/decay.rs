@@ -149,12 +149,16 @@ pub fn analyse_decay(
     };
     let tol = pressure_tolerance(r.pressure_start);
     let pr = |si: f64| words::q(si, Dimension::Pressure, units);
+    let end_adj = match end {
+        End::Cap => "cap-end",
+        End::Rod => "rod-end",
+    };
     let end_name = match end {
         End::Cap => "cap end",
         End::Rod => "rod end",
     };
     let mut reasoning = vec![format!(
-        "The {end_name} pressure went from {} to {} in {}.",
+        "The {end_adj} pressure went from {} to {} in {}.",
         pr(r.pressure_start),
         pr(r.pressure_end),
         words::duration(r.duration)

@@ -74,6 +74,14 @@ fn end_words(end: End) -> &'static str {
     }
 }
 
+/// The end as a word before a noun: "cap-end pressure".
+fn end_adj(end: End) -> &'static str {
+    match end {
+        End::Cap => "cap-end",
+        End::Rod => "rod-end",
+    }
+}
+
 /// Diagnoses a drift test from its numbers (see the module documentation for the rules).
 pub fn diagnose(
     input: &CylinderInput,
@@ -143,7 +151,7 @@ pub fn diagnose(
         match (other_pair, hold_pair) {
             (Some((a, b)), _) if other_rose => reasoning.push(format!(
                 "The {} pressure rose from {} to {} while the {} held {}: oil is crossing the piston.",
-                end_words(other),
+                end_adj(other),
                 pr(a),
                 pr(b),
                 end_words(hold),
@@ -151,10 +159,10 @@ pub fn diagnose(
             )),
             (_, Some((a, b))) => reasoning.push(format!(
                 "The {} pressure rose from {} to {} with the same load on it; that happens only when the {} pressure rises beneath it, i.e. oil crossing the piston.",
-                end_words(hold),
+                end_adj(hold),
                 pr(a),
                 pr(b),
-                end_words(other)
+                end_adj(other)
             )),
             _ => {}
         }
@@ -318,18 +326,18 @@ fn leak_cause(
             let hold_words = match hold_pair {
                 Some((s, e)) if e < s - tol_p => format!(
                     "The {} pressure fell from {} to {}",
-                    end_words(hold),
+                    end_adj(hold),
                     pr(s),
                     pr(e)
                 ),
                 Some((s, _)) => {
-                    format!("The {} pressure stayed at about {}", end_words(hold), pr(s))
+                    format!("The {} pressure stayed at about {}", end_adj(hold), pr(s))
                 }
-                None => format!("The {} pressure was not read, but", end_words(hold)),
+                None => format!("The {} pressure was not read, but", end_adj(hold)),
             };
             reasoning.push(format!(
                 "{hold_words} and the {} pressure did not rise ({} to {}): oil is leaving the {}, not crossing the piston. Look at the directional valve, any load-holding valve, and the fittings and hoses of the {}.",
-                end_words(other),
+                end_adj(other),
                 pr(a),
                 pr(b),
                 end_words(hold),
@@ -337,7 +345,7 @@ fn leak_cause(
             ));
             reasoning.push(format!(
                 "If the {} port was open to tank during the test, a piston seal bypass looks the same: block both ports and repeat to rule it out.",
-                end_words(other)
+                end_adj(other)
             ));
             Diagnosis::HoldingCircuitLeak
         }
@@ -348,7 +356,7 @@ fn leak_cause(
         None => {
             reasoning.push(format!(
                 "Without the {} pressure at start and end, a piston seal bypass cannot be told from a leak in the holding circuit: fit gauges on both ports, block both and repeat.",
-                end_words(other)
+                end_adj(other)
             ));
             Diagnosis::Inconclusive
         }

@@ -132,6 +132,11 @@ fn repeated(found: Inspection, machine_id: i64) -> Result<Stored<Inspection>, Wr
 }
 
 /// The inspection that put the machine out of service, if that is why it is out.
+pub async fn out_of_service_cause(db: &Db, machine_id: i64) -> Result<Option<i64>, sqlx::Error> {
+    let mut conn = db.acquire().await?;
+    cause(&mut conn, machine_id).await
+}
+
 async fn cause(conn: &mut SqliteConnection, machine_id: i64) -> Result<Option<i64>, sqlx::Error> {
     sqlx::query_scalar::<_, Option<i64>>(
         "SELECT out_of_service_inspection_id FROM machines

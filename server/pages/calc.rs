@@ -2,7 +2,8 @@
 //! object the calculation API reads, so both refuse the same input with the same words; the
 //! results are the same reports, shown in the chosen units with the cautions beside hazards.
 
-use super::calc_view::{self, CylinderView, DecayView, DriftView, FieldView};
+use super::calc_fields::{self, FieldView};
+use super::calc_view::{self, CylinderView, DecayView, DriftView};
 use super::ctx::PageCtx;
 use crate::api::calc_input::{self, calc_error};
 use crate::api::input::Fields;
@@ -116,11 +117,11 @@ async fn page(ctx: PageCtx, Query(pairs): Query<Vec<(String, String)>>) -> Respo
         load_direction: value("load_direction"),
         end_condition: value("end_condition"),
         pressurised_end: value("decay.pressurised_end"),
-        cylinder_fields: calc_view::fields(calc_view::CYLINDER, &value, units),
-        option_fields: calc_view::fields(calc_view::OPTIONS, &value, units),
-        rating_fields: calc_view::fields(calc_view::RATINGS, &value, units),
-        drift_fields: calc_view::fields(calc_view::DRIFT, &value, units),
-        decay_fields: calc_view::fields(calc_view::DECAY, &value, units),
+        cylinder_fields: calc_fields::fields(calc_fields::CYLINDER, &value, units),
+        option_fields: calc_fields::fields(calc_fields::OPTIONS, &value, units),
+        rating_fields: calc_fields::fields(calc_fields::RATINGS, &value, units),
+        drift_fields: calc_fields::fields(calc_fields::DRIFT, &value, units),
+        decay_fields: calc_fields::fields(calc_fields::DECAY, &value, units),
         error: None,
         cylinder: None,
         drift: None,
@@ -147,7 +148,7 @@ async fn page(ctx: PageCtx, Query(pairs): Query<Vec<(String, String)>>) -> Respo
                     f.error = message.clone();
                 }
             }
-            page.error = Some((calc_view::label_of(&field), message));
+            page.error = Some((calc_fields::label_of(&field), message));
             let status = if status.is_client_error() {
                 status
             } else {

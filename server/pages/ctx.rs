@@ -1,6 +1,6 @@
 //! What every page needs to know about the request: who is logged in and the form token.
 //! Every page view struct has a `ctx: PageCtx` field; every POST form includes
-//! `{% call m::csrf(ctx) %}` from macros.html.
+//! `{% call m::csrf(ctx) %}{% endcall %}` from macros.html.
 
 use crate::auth::Actor;
 use axum::extract::FromRequestParts;

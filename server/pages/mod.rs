@@ -11,6 +11,7 @@ use axum::routing::get;
 pub mod admin; // accounts
 pub mod assets;
 pub mod calc;
+pub mod calc_fields;
 pub mod calc_view;
 pub mod ctx;
 pub mod login; // accounts

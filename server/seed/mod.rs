@@ -2,6 +2,8 @@
 //! from the JSON files in `seed-demo/` (compiled in) through the same readers as the API, so
 //! the demo data obeys every rule a client must. And the scale generator for benchmarks.
 
+pub mod generate;
+
 use crate::api::{cylinder_draft, draft, hose_draft, machine_draft, sites as site_input};
 use crate::calc::bypass::{self, Line, Trapped};
 use crate::calc::cylinder::{Cylinder as Geometry, LoadDirection};
@@ -237,8 +239,6 @@ pub async fn hoses_below_bypass(db: &Db) -> Result<usize, String> {
 }
 
 /// Generates `n` machines of synthetic fleet for benchmarks; returns a summary to print.
-pub async fn generate(_db: &Db, _n: u32) -> Result<String, String> {
-    Err("the scale generator is not in this build yet (the benchmark work adds it); \
-         run seed-demo without --scale for the demo fleet"
-        .into())
+pub async fn generate(db: &Db, n: u32) -> Result<String, String> {
+    generate::generate(db, n).await
 }

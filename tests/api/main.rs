@@ -2,8 +2,21 @@
 
 mod access; // accounts
 mod accounts; // accounts
+mod accounts_cli; // accounts
 mod audit; // accounts
 mod calc;
+mod calc_errors;
+mod calc_page;
 mod fuzz;
 mod health;
 mod helpers;
+// registry
+mod cylinders;
+mod demo;
+mod hoses;
+mod machines;
+mod registry_fixtures;
+mod registry_pages;
+mod sites;
+// reports
+mod reports;

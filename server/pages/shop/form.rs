@@ -154,6 +154,18 @@ impl<'a> Fields<'a> {
         field
     }
 
+    /// A row of large radio buttons; `options` are (value, label).
+    pub fn radio(
+        &mut self,
+        name: &'static str,
+        label: &'static str,
+        options: Vec<(String, String)>,
+    ) -> &mut Field {
+        let field = self.select(name, label, options);
+        field.kind = "radio";
+        field
+    }
+
     pub fn finish(self) -> Vec<Field> {
         self.list
     }

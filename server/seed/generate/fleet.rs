@@ -248,7 +248,6 @@ pub fn round_to(x: f64, step: f64) -> f64 {
 /// A generated cylinder, as the history needs it.
 pub struct CylinderSim {
     pub id: i64,
-    pub function: &'static str,
     pub bore: f64,
     pub rod: f64,
     pub stroke: f64,
@@ -318,7 +317,6 @@ pub fn cylinder(
     ];
     let sim = CylinderSim {
         id,
-        function: plan.function,
         bore,
         rod,
         stroke,
@@ -398,22 +396,30 @@ pub fn hose_rows(
     };
     let mut rows = Vec::new();
     let mut installed = registered;
-    let history = (today - registered).whole_days().max(2);
-    let mut replaced_on = rng
-        .chance(0.15)
-        .then(|| registered + days(rng.int(history / 5, history - 1)));
     let last_id = loop {
         let id = *next_id;
         *next_id += 1;
-        let archived = replaced_on.take();
         let made = installed - days(rng.int(30, 200));
-        let replace_by = if rng.chance(0.04) {
-            Some(installed + days(rng.int(2 * 365, 5 * 365)))
-        } else if rng.chance(0.5) {
+        let replace_by = if rng.chance(0.5) {
             Some(installed + days(6 * 365))
+        } else if rng.chance(0.08) {
+            Some(installed + days(rng.int(2 * 365, 5 * 365)))
         } else {
             None
         };
+        // Most assemblies are changed shortly before their replace-by date; one in ten fails
+        // (or is damaged) early and is changed on the day.
+        let span = (today - installed).whole_days();
+        let archived = match replace_by {
+            Some(by) if by <= today && rng.chance(0.85) => {
+                Some((by - days(rng.int(0, 60))).max(installed + days(1)))
+            }
+            _ if span > 60 && rows.len() < 3 && rng.chance(0.1) => {
+                Some(installed + days(rng.int(30, span - 1)))
+            }
+            _ => None,
+        }
+        .filter(|day| *day < today);
         let created = stamp(installed, 9, 0);
         rows.push(vec![
             id.into(),

@@ -247,7 +247,12 @@ fn readings(rng: &mut Rng, c: &CylinderSim, p: &ProcedureSim, leak: f64, gauges:
     let hold = if c.direction == "retract" { End::Cap } else { End::Rod };
     let duration = round_to(p.duration + rng.range(-30.0, 60.0), 1.0);
     let start = round_to(c.stroke * rng.range(0.3, 0.7), 0.001);
-    let oil_start = round_to(rng.range(p.oil_min_k - 3.0, p.oil_max_k + 2.0), 0.5);
+    let oil_start = if rng.chance(0.9) {
+        rng.range(p.oil_min_k + 1.0, p.oil_max_k - 1.0)
+    } else {
+        rng.range(p.oil_min_k - 8.0, p.oil_max_k + 5.0)
+    };
+    let oil_start = round_to(oil_start, 0.5);
     let change = if rng.chance(0.1) { rng.range(0.0, 1.0) } else { -rng.range(0.0, 3.0) };
     let oil_end = round_to(oil_start + change, 0.5);
     let thermal = thermal_drift(

@@ -1,0 +1,394 @@
+//! The calculation endpoints: `/api/v1/calc/*` (no login, nothing stored).
+
+use super::Op;
+use super::dsl::*;
+use crate::calc::quantity::Dimension as D;
+
+/// Fields of a cylinder calculation request.
+pub const CYLINDER: &[&str] = &[
+    "bore", "rod", "stroke", "position", "load", "load_direction", "bulk_modulus",
+    "oil_expansion", "supply_pressure", "flow", "cap_line_volume", "rod_line_volume",
+    "cap_line_expansion", "rod_line_expansion", "tube_outside_diameter", "tube_yield",
+    "tube_safety_factor", "temperature_rise", "pilot_ratio", "end_condition",
+    "buckling_length", "buckling_safety_factor", "ratings", "units",
+];
+
+/// The readings of a position-drift test.
+pub const DRIFT: &[&str] = &[
+    "duration", "drift", "start_position", "end_position", "oil_temperature_start",
+    "oil_temperature_end", "cap_pressure_start", "cap_pressure_end", "rod_pressure_start",
+    "rod_pressure_end", "limit",
+];
+
+/// The readings of a pressure-decay test.
+pub const DECAY: &[&str] = &[
+    "pressurised_end", "duration", "pressure_start", "pressure_end", "oil_temperature_start",
+    "oil_temperature_end", "other_pressure_start", "other_pressure_end", "limit",
+];
+
+/// The request schema of any calculation field (drift and decay `limit` differ: see
+/// [`decay_field`]).
+pub fn field(name: &str) -> S {
+    match name {
+        "bore" | "rod" | "stroke" => quantity_in(D::Length, false),
+        "position" | "tube_outside_diameter" | "buckling_length" | "start_position"
+        | "end_position" => opt_quantity_in(D::Length),
+        "drift" => nullable(quantity_in(D::Length, true)),
+        "load" => quantity_in(D::Force, false),
+        "load_direction" => words(&["retract", "extend"]),
+        "bulk_modulus" | "supply_pressure" | "tube_yield" | "cap_pressure_start"
+        | "cap_pressure_end" | "rod_pressure_start" | "rod_pressure_end"
+        | "other_pressure_start" | "other_pressure_end" => opt_quantity_in(D::Pressure),
+        "pressure_start" | "pressure_end" => quantity_in(D::Pressure, false),
+        "oil_expansion" => opt_quantity_in(D::Expansion),
+        "flow" => opt_quantity_in(D::Flow),
+        "cap_line_volume" | "rod_line_volume" => opt_quantity_in(D::Volume),
+        "cap_line_expansion" | "rod_line_expansion" => opt_quantity_in(D::Compliance),
+        "tube_safety_factor" | "pilot_ratio" | "buckling_safety_factor" => nullable(number()),
+        "temperature_rise" => nullable(quantity_in(D::TemperatureChange, true)),
+        "end_condition" => nullable(words(&[
+            "fixed_free",
+            "pinned_pinned",
+            "fixed_pinned",
+            "fixed_fixed",
+        ])),
+        "ratings" => nullable(closed(
+            vec![
+                ("cap_line", opt_quantity_in(D::Pressure)),
+                ("rod_line", opt_quantity_in(D::Pressure)),
+                ("cylinder", opt_quantity_in(D::Pressure)),
+                (
+                    "hoses",
+                    nullable(array(closed(
+                        vec![
+                            ("label", required_text(2000)),
+                            ("port", words(&["cap", "rod"])),
+                            ("rating", quantity_in(D::Pressure, false)),
+                        ],
+                        &["label", "port", "rating"],
+                    ))),
+                ),
+            ],
+            &[],
+        )),
+        "units" => nullable(words(&["us", "metric"])),
+        "duration" => quantity_in(D::Time, false),
+        "oil_temperature_start" | "oil_temperature_end" => quantity_in(D::Temperature, true),
+        "limit" => nullable(closed(
+            vec![
+                ("distance", quantity_in(D::Length, false)),
+                ("per", quantity_in(D::Time, false)),
+            ],
+            &["distance", "per"],
+        )),
+        "pressurised_end" => words(&["cap", "rod"]),
+        _ => any(),
+    }
+}
+
+/// As [`field`], with the decay test's `limit: {pressure, per}`.
+pub fn decay_field(name: &str) -> S {
+    match name {
+        "limit" => nullable(closed(
+            vec![
+                ("pressure", quantity_in(D::Pressure, false)),
+                ("per", quantity_in(D::Time, false)),
+            ],
+            &["pressure", "per"],
+        )),
+        other => field(other),
+    }
+}
+
+const CYLINDER_REQUIRED: &[&str] = &["bore", "rod", "stroke", "load", "load_direction"];
+
+fn request(names: &[&[&'static str]], lookup: fn(&str) -> S, required: &[&str]) -> S {
+    let all: Vec<&'static str> = names.iter().flat_map(|n| n.iter().copied()).collect();
+    closed(pick(&all, lookup), required)
+}
+
+pub fn operations() -> Vec<Op> {
+    let drift_required: Vec<&str> = CYLINDER_REQUIRED
+        .iter()
+        .chain(&["duration", "oil_temperature_start", "oil_temperature_end"])
+        .copied()
+        .collect();
+    let decay_required: Vec<&str> = CYLINDER_REQUIRED
+        .iter()
+        .chain(&[
+            "pressurised_end",
+            "duration",
+            "pressure_start",
+            "pressure_end",
+            "oil_temperature_start",
+            "oil_temperature_end",
+        ])
+        .copied()
+        .collect();
+    vec![
+        Op::post(
+            "/api/v1/calc/cylinder",
+            "calc",
+            "Areas, holding pressures, piston seal bypass, rod-side intensification, speeds, ratings checks",
+        )
+        .public()
+        .body(request(&[CYLINDER], field, CYLINDER_REQUIRED))
+        .ok(200, "The cylinder's analysis.", reference("CylinderReport")),
+        Op::post(
+            "/api/v1/calc/drift-test",
+            "calc",
+            "A position-drift test's verdict, diagnosis, reasoning and hazards",
+        )
+        .public()
+        .body(request(&[CYLINDER, DRIFT], field, &drift_required))
+        .ok(200, "The drift test's analysis.", reference("DriftReport")),
+        Op::post(
+            "/api/v1/calc/pressure-decay",
+            "calc",
+            "A pressure-decay test at the end of stroke",
+        )
+        .public()
+        .body(request(&[CYLINDER, DECAY], decay_field, &decay_required))
+        .ok(200, "The decay test's analysis.", reference("DecayReport")),
+    ]
+}
+
+fn status() -> S {
+    words(&["ok", "low_margin", "exceeds"])
+}
+
+fn texts() -> S {
+    array(string())
+}
+
+pub fn schemas() -> Vec<(&'static str, S)> {
+    let qs = |names: &[&'static str]| -> Vec<(&'static str, S)> {
+        names.iter().map(|n| (*n, quantity())).collect()
+    };
+    let req = |names: &[&'static str]| names.to_vec();
+    let with = |mut a: Vec<(&'static str, S)>, b: Vec<(&'static str, S)>| {
+        a.extend(b);
+        a
+    };
+    vec![
+        (
+            "CylinderReport",
+            object(
+                vec![
+                    ("calc_version", string()),
+                    ("units", words(&["us", "metric"])),
+                    ("load_direction", words(&["retract", "extend"])),
+                    ("position", quantity()),
+                    (
+                        "areas",
+                        object(
+                            with(qs(&["cap", "rod", "annulus"]), vec![("ratio", number())]),
+                            &req(&["cap", "rod", "annulus", "ratio"]),
+                        ),
+                    ),
+                    ("volumes", object(qs(&["cap", "rod"]), &["cap", "rod"])),
+                    (
+                        "holding",
+                        object(
+                            with(
+                                vec![("holding_end", words(&["cap", "rod"]))],
+                                qs(&["cap_pressure", "rod_pressure"]),
+                            ),
+                            &["holding_end", "cap_pressure", "rod_pressure"],
+                        ),
+                    ),
+                    (
+                        "seal_bypass",
+                        object(
+                            vec![
+                                ("outcome", words(&["intensifies", "runs_away"])),
+                                ("final_pressure", opt_quantity()),
+                                ("intensification_factor", nullable(number())),
+                                ("settle_drift", opt_quantity()),
+                                ("explanation", string()),
+                            ],
+                            &["outcome", "final_pressure", "intensification_factor", "settle_drift"],
+                        ),
+                    ),
+                    (
+                        "rod_side_intensification",
+                        nullable(object(
+                            qs(&["supply_pressure", "rod_pressure"]),
+                            &["supply_pressure", "rod_pressure"],
+                        )),
+                    ),
+                    (
+                        "speeds",
+                        nullable(object(
+                            qs(&[
+                                "extend",
+                                "retract",
+                                "regenerative_extend",
+                                "retract_return_flow",
+                                "extend_return_flow",
+                            ]),
+                            &["extend", "retract", "regenerative_extend", "retract_return_flow"],
+                        )),
+                    ),
+                    (
+                        "forces",
+                        nullable(object(
+                            qs(&["extend", "retract", "regenerative_extend"]),
+                            &["extend", "retract", "regenerative_extend"],
+                        )),
+                    ),
+                    (
+                        "counterbalance",
+                        object(
+                            vec![
+                                ("setting", quantity()),
+                                ("load_pressure", quantity()),
+                                ("pilot_ratio", nullable(number())),
+                                ("pilot_opening_pressure", opt_quantity()),
+                            ],
+                            &["setting", "load_pressure"],
+                        ),
+                    ),
+                    (
+                        "trapped_oil_heating",
+                        object(
+                            qs(&["temperature_rise", "cap_rise", "rod_rise", "cap_pressure", "rod_pressure"]),
+                            &["temperature_rise", "cap_pressure", "rod_pressure"],
+                        ),
+                    ),
+                    (
+                        "tube",
+                        nullable(object(
+                            with(
+                                qs(&["pressure", "hoop_stress", "yield_strength", "allowable_stress"]),
+                                vec![
+                                    ("safety_factor", number()),
+                                    ("utilisation", number()),
+                                    ("status", status()),
+                                ],
+                            ),
+                            &["pressure", "hoop_stress", "status"],
+                        )),
+                    ),
+                    (
+                        "buckling",
+                        nullable(object(
+                            with(
+                                qs(&["length", "critical_load", "allowable_load", "load"]),
+                                vec![
+                                    ("end_condition", string()),
+                                    ("effective_length_factor", number()),
+                                    ("safety_factor", number()),
+                                    ("status", status()),
+                                ],
+                            ),
+                            &["critical_load", "status"],
+                        )),
+                    ),
+                    ("highest_pressure", quantity()),
+                    (
+                        "checks",
+                        array(object(
+                            vec![
+                                ("component", string()),
+                                ("scenario", string()),
+                                ("pressure", quantity()),
+                                ("rating", quantity()),
+                                ("status", status()),
+                            ],
+                            &["component", "scenario", "pressure", "rating", "status"],
+                        )),
+                    ),
+                    ("hazards", texts()),
+                    ("cautions", texts()),
+                ],
+                &[
+                    "areas",
+                    "holding",
+                    "seal_bypass",
+                    "rod_side_intensification",
+                    "speeds",
+                    "checks",
+                    "cautions",
+                ],
+            ),
+        ),
+        (
+            "DriftReport",
+            object(
+                with(
+                    qs(&[
+                        "drift",
+                        "duration",
+                        "temperature_change",
+                        "position",
+                        "drift_rate",
+                        "thermal_drift",
+                        "leak_drift",
+                        "leak_flow",
+                        "scaled_drift",
+                        "scaled_leak_drift",
+                        "scaled_per",
+                    ]),
+                    vec![
+                        ("calc_version", string()),
+                        ("units", words(&["us", "metric"])),
+                        (
+                            "limit",
+                            nullable(object(qs(&["distance", "per"]), &["distance", "per"])),
+                        ),
+                        ("verdict", string()),
+                        ("diagnosis", string()),
+                        ("reasoning", texts()),
+                        ("hazards", texts()),
+                        ("cautions", texts()),
+                    ],
+                ),
+                &[
+                    "drift_rate",
+                    "thermal_drift",
+                    "leak_drift",
+                    "leak_flow",
+                    "scaled_drift",
+                    "verdict",
+                    "diagnosis",
+                    "reasoning",
+                    "hazards",
+                    "cautions",
+                ],
+            ),
+        ),
+        (
+            "DecayReport",
+            object(
+                with(
+                    qs(&[
+                        "duration",
+                        "temperature_change",
+                        "oil_volume",
+                        "measured_change",
+                        "thermal_change",
+                        "leak_change",
+                        "leak_flow",
+                        "scaled_drop",
+                    ]),
+                    vec![
+                        ("calc_version", string()),
+                        ("units", words(&["us", "metric"])),
+                        ("pressurised_end", words(&["cap", "rod"])),
+                        (
+                            "limit",
+                            nullable(object(qs(&["pressure", "per"]), &["pressure", "per"])),
+                        ),
+                        ("verdict", string()),
+                        ("diagnosis", string()),
+                        ("reasoning", texts()),
+                        ("hazards", texts()),
+                        ("cautions", texts()),
+                    ],
+                ),
+                &["verdict", "diagnosis", "reasoning", "hazards", "cautions"],
+            ),
+        ),
+    ]
+}

@@ -1,0 +1,120 @@
+//! Printable labels for a machine and a cylinder: unit number, function, bore/rod/stroke and
+//! a QR code of the record page's absolute address, so a tablet's camera opens the record.
+
+use super::qr::{self, QrSvg};
+use super::{load_cylinder, load_machine};
+use crate::api::paging::pick_units;
+use crate::app::AppState;
+use crate::calc::quantity::{Dimension, UnitSystem};
+use crate::pages::ctx::PageCtx;
+use crate::pages::machine_page::{direction_words, size_text};
+use crate::pages::view::q;
+use askama::Template;
+use askama_web::WebTemplate;
+use axum::extract::{Path, State};
+use axum::http::HeaderMap;
+use axum::http::header::HOST;
+use axum::response::{IntoResponse, Response};
+
+#[derive(Template, WebTemplate)]
+#[template(path = "shop/label.html")]
+pub struct LabelPage {
+    pub ctx: PageCtx,
+    pub unit_number: String,
+    /// The cylinder's function, or the machine's kind and description.
+    pub heading: String,
+    pub lines: Vec<String>,
+    pub address: String,
+    pub qr: Option<QrSvg>,
+    pub back: String,
+}
+
+/// The address the request came to (`http://host:port`), from the `Host` header (refused for
+/// anything but a host name, IPv4/IPv6 address and port) and `X-Forwarded-Proto`.
+pub fn base_url(headers: &HeaderMap) -> String {
+    let host = headers
+        .get(HOST)
+        .and_then(|h| h.to_str().ok())
+        .filter(|h| {
+            !h.is_empty()
+                && h.len() <= 255
+                && h.chars()
+                    .all(|c| c.is_ascii_alphanumeric() || matches!(c, '.' | '-' | ':' | '[' | ']'))
+        })
+        .unwrap_or("localhost");
+    let https = headers
+        .get("x-forwarded-proto")
+        .and_then(|h| h.to_str().ok())
+        .is_some_and(|p| p.eq_ignore_ascii_case("https"));
+    format!("{}://{host}", if https { "https" } else { "http" })
+}
+
+fn sizes(bore: f64, rod: f64, stroke: f64, units: UnitSystem) -> Vec<String> {
+    let l = |si: f64| q(Some(si), Dimension::Length, units);
+    vec![format!("Bore {} · rod {} · stroke {}", l(bore), l(rod), l(stroke))]
+}
+
+/// `GET /machines/{id}/label`.
+pub async fn machine(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    headers: HeaderMap,
+    Path(id): Path<String>,
+) -> Response {
+    let m = match load_machine(&state, &id).await {
+        Ok(m) => m,
+        Err(page) => return page,
+    };
+    let address = format!("{}/machines/{}", base_url(&headers), m.id);
+    let mut lines = Vec::new();
+    if let Some(d) = &m.description {
+        lines.push(d.clone());
+    }
+    if let Some(s) = &m.serial {
+        lines.push(format!("Serial {s}"));
+    }
+    if let Some(site) = &m.site_name {
+        lines.push(site.clone());
+    }
+    LabelPage {
+        ctx,
+        unit_number: m.unit_number.clone(),
+        heading: m.kind.clone(),
+        lines,
+        qr: qr::encode(&address),
+        address,
+        back: format!("/machines/{}", m.id),
+    }
+    .into_response()
+}
+
+/// `GET /cylinders/{id}/label`.
+pub async fn cylinder(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    headers: HeaderMap,
+    Path(id): Path<String>,
+) -> Response {
+    let (c, _) = match load_cylinder(&state, &id).await {
+        Ok(pair) => pair,
+        Err(page) => return page,
+    };
+    let units = pick_units(None, c.site_units.as_deref());
+    let address = format!("{}/cylinders/{}", base_url(&headers), c.id);
+    let mut lines = sizes(c.bore_m, c.rod_m, c.stroke_m, units);
+    lines.push(format!("({})", size_text(&c, units)));
+    lines.push(format!("Load {}", direction_words(&c.load_direction)));
+    if let Some(s) = &c.serial {
+        lines.push(format!("Serial {s}"));
+    }
+    LabelPage {
+        ctx,
+        unit_number: c.unit_number.clone(),
+        heading: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        lines,
+        qr: qr::encode(&address),
+        address,
+        back: format!("/cylinders/{}", c.id),
+    }
+    .into_response()
+}

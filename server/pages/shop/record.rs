@@ -1,0 +1,250 @@
+//! A stored test as the shop sees it right after saving: verdict, diagnosis and its
+//! reasoning, hazards and cautions, the figures, the readings, who signed it and when, and
+//! the records it amends or that amend it.
+
+use super::load_cylinder;
+use super::words::{diagnosis_words, flags_words, shown, texts, verdict_words, when};
+use crate::api::paging::{path_id, pick_units};
+use crate::app::AppState;
+use crate::calc::quantity::Dimension as D;
+use crate::db::{decay_tests, drift_tests};
+use crate::error::AppError;
+use crate::pages::ctx::PageCtx;
+use crate::pages::machine_page::size_text;
+use crate::pages::page_error;
+use crate::pages::view::q;
+use askama::Template;
+use askama_web::WebTemplate;
+use axum::extract::{Path, Query, State};
+use axum::response::{IntoResponse, Response};
+use serde::Deserialize;
+use serde_json::Value;
+
+#[derive(Template, WebTemplate)]
+#[template(path = "shop/record.html")]
+pub struct RecordPage {
+    pub ctx: PageCtx,
+    /// `Drift test` or `Pressure-decay test`.
+    pub title: &'static str,
+    pub id: i64,
+    pub cylinder_id: i64,
+    pub machine_id: i64,
+    pub unit_number: String,
+    pub function: String,
+    pub size: String,
+    pub verdict: String,
+    pub verdict_words: &'static str,
+    pub diagnosis: String,
+    pub diagnosis_words: &'static str,
+    pub reasoning: Vec<String>,
+    pub hazards: Vec<String>,
+    pub cautions: Vec<String>,
+    pub flags: Vec<String>,
+    pub figures: Vec<(String, String)>,
+    pub readings: Vec<(String, String)>,
+    pub technician: String,
+    pub tested_at: String,
+    pub created_by: String,
+    pub created_at: String,
+    pub calc_version: String,
+    pub notes: String,
+    pub amends: Option<i64>,
+    pub amended_by: Option<i64>,
+    /// `drift-test` or `decay-test`, for the links.
+    pub slug: &'static str,
+    /// True when this page answers a resubmit that found the record already stored.
+    pub repeated: bool,
+}
+
+#[derive(Debug, Default, Deserialize)]
+pub struct RecordQuery {
+    pub repeat: Option<String>,
+}
+
+fn figures(analysis: &Value, keys: &[(&str, &str)]) -> Vec<(String, String)> {
+    keys.iter()
+        .filter(|(key, _)| !analysis[*key].is_null())
+        .map(|(key, label)| (label.to_string(), shown(&analysis[*key])))
+        .collect()
+}
+
+fn limit_text(analysis: &Value, amount: &str) -> Option<(String, String)> {
+    let l = &analysis["limit"];
+    (!l.is_null()).then(|| {
+        (
+            "Limit".to_string(),
+            format!("{} in {}", shown(&l[amount]), shown(&l["per"])),
+        )
+    })
+}
+
+/// `GET /shop/drift-tests/{id}`.
+pub async fn drift_test(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+    Query(query): Query<RecordQuery>,
+) -> Response {
+    let id = match path_id(&id, "drift test") {
+        Ok(id) => id,
+        Err(e) => return page_error(e),
+    };
+    let t = match drift_tests::find(&state.db, id).await {
+        Ok(Some(t)) => t,
+        Ok(None) => return page_error(AppError::not_found(format!("drift test {id}"))),
+        Err(e) => return page_error(e.into()),
+    };
+    let (c, _) = match load_cylinder(&state, &t.cylinder_id.to_string()).await {
+        Ok(pair) => pair,
+        Err(page) => return page,
+    };
+    let units = pick_units(None, c.site_units.as_deref());
+    let a: Value = serde_json::from_str(&t.analysis_json).unwrap_or(Value::Null);
+    let mut figs = figures(
+        &a,
+        &[
+            ("drift", "Measured drift"),
+            ("duration", "Duration"),
+            ("temperature_change", "Oil temperature change"),
+            ("thermal_drift", "Drift the oil's temperature explains"),
+            ("leak_drift", "Drift left for leakage"),
+            ("leak_flow", "Equivalent leakage flow"),
+            ("scaled_drift", "Drift scaled to the limit's period"),
+            ("scaled_leak_drift", "Leak drift scaled to the period"),
+            ("scaled_per", "Period"),
+        ],
+    );
+    figs.extend(limit_text(&a, "distance"));
+    let opt = |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+    let readings: Vec<(String, String)> = [
+        opt("Drift", t.drift_m, D::Length),
+        opt("Start position", t.start_position_m, D::Length),
+        opt("End position", t.end_position_m, D::Length),
+        opt("Duration", Some(t.duration_s), D::Time),
+        opt("Oil at start", Some(t.oil_temperature_start_k), D::Temperature),
+        opt("Oil at end", Some(t.oil_temperature_end_k), D::Temperature),
+        opt("Ambient", t.ambient_temperature_k, D::Temperature),
+        opt("Cap end at start", t.cap_pressure_start_pa, D::Pressure),
+        opt("Cap end at end", t.cap_pressure_end_pa, D::Pressure),
+        opt("Rod end at start", t.rod_pressure_start_pa, D::Pressure),
+        opt("Rod end at end", t.rod_pressure_end_pa, D::Pressure),
+        opt("Load", t.load_n, D::Force),
+    ]
+    .into_iter()
+    .flatten()
+    .collect();
+    RecordPage {
+        ctx,
+        title: "Drift test",
+        id: t.id,
+        cylinder_id: c.id,
+        machine_id: c.machine_id,
+        unit_number: c.unit_number.clone(),
+        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        size: size_text(&c, units),
+        verdict_words: verdict_words(&t.verdict),
+        verdict: t.verdict.clone(),
+        diagnosis_words: diagnosis_words(&t.diagnosis),
+        diagnosis: t.diagnosis.clone(),
+        reasoning: texts(&a["reasoning"]),
+        hazards: texts(&a["hazards"]),
+        cautions: texts(&a["cautions"]),
+        flags: flags_words(&t.flag_list()),
+        figures: figs,
+        readings,
+        technician: t.technician.clone(),
+        tested_at: when(&t.tested_at),
+        created_by: t.created_by.clone(),
+        created_at: when(&t.created_at),
+        calc_version: t.calc_version.clone(),
+        notes: t.notes.clone().unwrap_or_default(),
+        amends: t.amends_id,
+        amended_by: t.amended_by_id,
+        slug: "drift-test",
+        repeated: query.repeat.is_some(),
+    }
+    .into_response()
+}
+
+/// `GET /shop/decay-tests/{id}`.
+pub async fn decay_test(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+    Query(query): Query<RecordQuery>,
+) -> Response {
+    let id = match path_id(&id, "decay test") {
+        Ok(id) => id,
+        Err(e) => return page_error(e),
+    };
+    let t = match decay_tests::find(&state.db, id).await {
+        Ok(Some(t)) => t,
+        Ok(None) => return page_error(AppError::not_found(format!("decay test {id}"))),
+        Err(e) => return page_error(e.into()),
+    };
+    let (c, _) = match load_cylinder(&state, &t.cylinder_id.to_string()).await {
+        Ok(pair) => pair,
+        Err(page) => return page,
+    };
+    let units = pick_units(None, c.site_units.as_deref());
+    let a: Value = serde_json::from_str(&t.analysis_json).unwrap_or(Value::Null);
+    let mut figs = figures(
+        &a,
+        &[
+            ("measured_change", "Measured pressure change"),
+            ("duration", "Duration"),
+            ("temperature_change", "Oil temperature change"),
+            ("thermal_change", "Change the temperature explains"),
+            ("leak_change", "Change left for leakage"),
+            ("leak_flow", "Equivalent leakage flow"),
+            ("scaled_drop", "Drop scaled to the limit's period"),
+        ],
+    );
+    figs.extend(limit_text(&a, "pressure"));
+    let p = |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+    let readings: Vec<(String, String)> = [
+        Some(("Pressurised end".to_string(), format!("{} end", t.pressurised_end))),
+        p("Duration", Some(t.duration_s), D::Time),
+        p("Pressure at start", Some(t.pressure_start_pa), D::Pressure),
+        p("Pressure at end", Some(t.pressure_end_pa), D::Pressure),
+        p("Other end at start", t.other_pressure_start_pa, D::Pressure),
+        p("Other end at end", t.other_pressure_end_pa, D::Pressure),
+        p("Oil at start", Some(t.oil_temperature_start_k), D::Temperature),
+        p("Oil at end", Some(t.oil_temperature_end_k), D::Temperature),
+        p("Ambient", t.ambient_temperature_k, D::Temperature),
+    ]
+    .into_iter()
+    .flatten()
+    .collect();
+    RecordPage {
+        ctx,
+        title: "Pressure-decay test",
+        id: t.id,
+        cylinder_id: c.id,
+        machine_id: c.machine_id,
+        unit_number: c.unit_number.clone(),
+        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        size: size_text(&c, units),
+        verdict_words: verdict_words(&t.verdict),
+        verdict: t.verdict.clone(),
+        diagnosis_words: diagnosis_words(&t.diagnosis),
+        diagnosis: t.diagnosis.clone(),
+        reasoning: texts(&a["reasoning"]),
+        hazards: texts(&a["hazards"]),
+        cautions: texts(&a["cautions"]),
+        flags: flags_words(&t.flag_list()),
+        figures: figs,
+        readings,
+        technician: t.technician.clone(),
+        tested_at: when(&t.tested_at),
+        created_by: t.created_by.clone(),
+        created_at: when(&t.created_at),
+        calc_version: t.calc_version.clone(),
+        notes: t.notes.clone().unwrap_or_default(),
+        amends: t.amends_id,
+        amended_by: t.amended_by_id,
+        slug: "decay-test",
+        repeated: query.repeat.is_some(),
+    }
+    .into_response()
+}

@@ -137,9 +137,21 @@ pub fn read(
         c.max_load_n = v;
     }
     for (name, dimension, slot) in [
-        ("holding_pressure", Dimension::Pressure, &mut c.holding_pressure_pa),
-        ("rated_pressure", Dimension::Pressure, &mut c.rated_pressure_pa),
-        ("tube_outside_diameter", Dimension::Length, &mut c.tube_outside_diameter_m),
+        (
+            "holding_pressure",
+            Dimension::Pressure,
+            &mut c.holding_pressure_pa,
+        ),
+        (
+            "rated_pressure",
+            Dimension::Pressure,
+            &mut c.rated_pressure_pa,
+        ),
+        (
+            "tube_outside_diameter",
+            Dimension::Length,
+            &mut c.tube_outside_diameter_m,
+        ),
         ("tube_yield", Dimension::Pressure, &mut c.tube_yield_pa),
     ] {
         if touched(map, name)
@@ -178,7 +190,11 @@ pub fn read(
 
 fn missing(p: &mut Problems, name: &str, what: &str) {
     if !p.has(name) {
-        p.push(AppError::field(name, "required", format!("{what} is required")));
+        p.push(AppError::field(
+            name,
+            "required",
+            format!("{what} is required"),
+        ));
     }
 }
 
@@ -186,7 +202,11 @@ fn missing(p: &mut Problems, name: &str, what: &str) {
 /// diameter larger than the bore.
 fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
     if c.machine_id.is_none() {
-        missing(p, "machine_id", "the machine the cylinder is on (machine_id)");
+        missing(
+            p,
+            "machine_id",
+            "the machine the cylinder is on (machine_id)",
+        );
     }
     if c.bore_m.is_none() {
         missing(p, "bore", "the bore, such as \"4 in\" or \"100 mm\",");

@@ -90,7 +90,9 @@ async fn create(
 }
 
 async fn list(State(state): State<AppState>, params: Params) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["machine", "site", "q", "archived", "limit", "cursor", "units"])?;
+    params.deny_unknown(&[
+        "machine", "site", "q", "archived", "limit", "cursor", "units",
+    ])?;
     let filter = CylinderFilter {
         machine_id: params.id("machine")?,
         site_id: params.id("site")?,
@@ -114,7 +116,9 @@ async fn show(
     let cylinder = store::find(&state.db, id)
         .await?
         .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
-    Ok(Json(reply(&cylinder, asked)))
+    let mut body = reply(&cylinder, asked);
+    body["due"] = super::reports::cylinder_due(&state, cylinder.id).await?; // reports
+    Ok(Json(body))
 }
 
 async fn update(

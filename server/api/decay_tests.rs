@@ -14,12 +14,12 @@ use crate::auth::Actor;
 use crate::calc::CALC_VERSION;
 use crate::calc::decay::analyse_decay;
 use crate::calc::quantity::Dimension as D;
+use crate::db::Db;
 use crate::db::cylinders::{self, Cylinder};
 use crate::db::decay_tests::{self as store, DecayTest, NewDecayTest};
 use crate::db::drift_tests::Stored;
 use crate::db::machines::{self, Machine};
 use crate::db::procedures::Procedure;
-use crate::db::Db;
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
@@ -29,10 +29,7 @@ use serde_json::{Map, Value, json};
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route(
-            "/api/v1/cylinders/{id}/decay-tests",
-            get(list).post(create),
-        )
+        .route("/api/v1/cylinders/{id}/decay-tests", get(list).post(create))
         .route("/api/v1/decay-tests/{id}", get(show))
 }
 
@@ -98,9 +95,10 @@ pub async fn prepare(
     let f = Fields::new(body);
     f.deny_unknown(&body_fields()).map_err(|e| vec![e])?;
     let mut problems = Problems::default();
-    let (tested_at, technician, token, amends, notes) =
-        shop_input::common(&f, "tested_at", "technician", user, &mut problems);
-    let procedure_id = problems.take(super::draft::id(&f, "procedure_id")).flatten();
+    let common = shop_input::common(&f, "tested_at", "technician", user, &mut problems);
+    let procedure_id = problems
+        .take(super::draft::id(&f, "procedure_id"))
+        .flatten();
     check_readings(&f, &mut problems);
     let procedure = match procedure_id {
         Some(id) => problems.take(applicable_procedure(db, id, "decay", cylinder, machine).await),
@@ -117,7 +115,9 @@ pub async fn prepare(
     let mut request = match cylinder_request(db, cylinder, f.has("load")).await {
         Ok(r) => r,
         Err(_) => {
-            let mut r = cylinder_request(db, cylinder, true).await.map_err(|e| vec![e])?;
+            let mut r = cylinder_request(db, cylinder, true)
+                .await
+                .map_err(|e| vec![e])?;
             r.insert("load".into(), si(0.0, D::Force));
             r
         }
@@ -149,31 +149,15 @@ pub async fn prepare(
         let units = cylinder.site_units.as_deref().unwrap_or("metric");
         request.insert("units".into(), json!(units));
     }
-    let record = Record {
-        tested_at,
-        technician,
-        ambient,
-        token,
-        amends,
-        notes,
-    };
-    analyse(cylinder, procedure.as_ref(), request, record).map_err(|e| vec![e])
-}
-
-struct Record {
-    tested_at: Option<String>,
-    technician: Option<String>,
-    ambient: Option<f64>,
-    token: Option<String>,
-    amends: Option<i64>,
-    notes: Option<String>,
+    analyse(cylinder, procedure.as_ref(), request, common, ambient).map_err(|e| vec![e])
 }
 
 fn analyse(
     cylinder: &Cylinder,
     procedure: Option<&Procedure>,
     request: Map<String, Value>,
-    record: Record,
+    record: shop_input::Common,
+    ambient: Option<f64>,
 ) -> Result<NewDecayTest, AppError> {
     let rf = Fields::new(&request);
     let units = rf.units()?;
@@ -184,8 +168,8 @@ fn analyse(
     Ok(NewDecayTest {
         cylinder_id: cylinder.id,
         procedure_id: procedure.map(|p| p.id),
-        tested_at: record.tested_at.unwrap_or_else(crate::db::now_rfc3339),
-        technician: record.technician.unwrap_or_default(),
+        tested_at: record.at.unwrap_or_else(crate::db::now_rfc3339),
+        technician: record.signer.unwrap_or_default(),
         pressurised_end: readings.pressurised_end.as_str().to_string(),
         duration_s: readings.duration,
         pressure_start_pa: readings.pressure_start,
@@ -194,7 +178,7 @@ fn analyse(
         other_pressure_end_pa: readings.other_pressure_end,
         oil_temperature_start_k: readings.oil_temperature_start,
         oil_temperature_end_k: readings.oil_temperature_end,
-        ambient_temperature_k: record.ambient,
+        ambient_temperature_k: ambient,
         limit_pressure_drop_pa: readings.limit.map(|l| l.pressure),
         limit_period_s: readings.limit.map(|l| l.per),
         readings_json: Value::Object(request).to_string(),

@@ -30,9 +30,7 @@ impl Problems {
 
     /// True when a problem was already recorded for `field` (so a later check can skip it).
     pub fn has(&self, field: &str) -> bool {
-        self.0
-            .iter()
-            .any(|e| e.parts().2.as_deref() == Some(field))
+        self.0.iter().any(|e| e.parts().2.as_deref() == Some(field))
     }
 
     pub fn is_empty(&self) -> bool {

@@ -2,9 +2,7 @@
 //! analysed by the engineering core exactly as `POST /api/v1/calc/drift-test` answers, and
 //! stored append-only with the readings, the analysis and the calculation version.
 
-use super::calc_input::{
-    DRIFT_FIELDS, calc_error, parse_cylinder_request, parse_drift_readings,
-};
+use super::calc_input::{DRIFT_FIELDS, calc_error, parse_cylinder_request, parse_drift_readings};
 use super::calc_output::drift_response;
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
@@ -30,10 +28,7 @@ use serde_json::{Map, Value, json};
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route(
-            "/api/v1/cylinders/{id}/drift-tests",
-            get(list).post(create),
-        )
+        .route("/api/v1/cylinders/{id}/drift-tests", get(list).post(create))
         .route("/api/v1/drift-tests/{id}", get(show))
 }
 
@@ -142,8 +137,8 @@ pub async fn cylinder_request(
     r.insert("stroke".into(), si(c.stroke_m, D::Length));
     r.insert("load_direction".into(), json!(c.load_direction));
     if !load_given {
-        let geometry =
-            Geometry::new(c.bore_m, c.rod_m, c.stroke_m).map_err(|e| AppError::internal(e.message))?;
+        let geometry = Geometry::new(c.bore_m, c.rod_m, c.stroke_m)
+            .map_err(|e| AppError::internal(e.message))?;
         let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
         let load = c.max_load_n.or_else(|| {
             c.holding_pressure_pa
@@ -213,9 +208,10 @@ pub async fn prepare(
     let f = Fields::new(body);
     f.deny_unknown(&body_fields()).map_err(|e| vec![e])?;
     let mut problems = Problems::default();
-    let (tested_at, technician, token, amends, notes) =
-        shop_input::common(&f, "tested_at", "technician", user, &mut problems);
-    let procedure_id = problems.take(super::draft::id(&f, "procedure_id")).flatten();
+    let common = shop_input::common(&f, "tested_at", "technician", user, &mut problems);
+    let procedure_id = problems
+        .take(super::draft::id(&f, "procedure_id"))
+        .flatten();
     check_readings(&f, &mut problems);
     let procedure = match procedure_id {
         Some(id) => problems.take(applicable_procedure(db, id, "drift", cylinder, machine).await),
@@ -257,23 +253,17 @@ pub async fn prepare(
         let units = cylinder.site_units.as_deref().unwrap_or("metric");
         request.insert("units".into(), json!(units));
     }
-    analyse(cylinder, procedure.as_ref(), request, tested_at, technician, ambient, token, amends, notes)
-        .map_err(|e| vec![e])
+    analyse(cylinder, procedure.as_ref(), request, common, ambient).map_err(|e| vec![e])
 }
 
 /// Runs the calculation request through the engineering core as the calculation API does and
 /// fills the record.
-#[allow(clippy::too_many_arguments)]
 fn analyse(
     cylinder: &Cylinder,
     procedure: Option<&Procedure>,
     request: Map<String, Value>,
-    tested_at: Option<String>,
-    technician: Option<String>,
+    common: shop_input::Common,
     ambient: Option<f64>,
-    token: Option<String>,
-    amends: Option<i64>,
-    notes: Option<String>,
 ) -> Result<NewDriftTest, AppError> {
     let rf = Fields::new(&request);
     let units = rf.units()?;
@@ -289,8 +279,8 @@ fn analyse(
     Ok(NewDriftTest {
         cylinder_id: cylinder.id,
         procedure_id: procedure.map(|p| p.id),
-        tested_at: tested_at.unwrap_or_else(crate::db::now_rfc3339),
-        technician: technician.unwrap_or_default(),
+        tested_at: common.at.unwrap_or_else(crate::db::now_rfc3339),
+        technician: common.signer.unwrap_or_default(),
         duration_s: readings.duration,
         drift_m,
         start_position_m: start,
@@ -320,9 +310,9 @@ fn analyse(
             readings.oil_temperature_start,
             readings.oil_temperature_end,
         ),
-        notes,
-        client_token: token,
-        amends_id: amends,
+        notes: common.notes,
+        client_token: common.token,
+        amends_id: common.amends,
     })
 }
 

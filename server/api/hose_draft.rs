@@ -76,10 +76,7 @@ pub fn parse_quarter(text: &str) -> Option<(i32, u8)> {
 /// Reads a hose over `base` (the stored hose, or a draft with only the machine for a new one).
 /// Returns the merged draft and the `archived` flag, or every problem. The caller fills a
 /// missing `machine_id` from the cylinder, then calls [`finish`].
-pub fn read(
-    map: &Map<String, Value>,
-    base: Draft,
-) -> Result<(Draft, Option<bool>), Vec<AppError>> {
+pub fn read(map: &Map<String, Value>, base: Draft) -> Result<(Draft, Option<bool>), Vec<AppError>> {
     let f = Fields::new(map);
     let mut p = Problems::default();
     let mut h = base;
@@ -111,9 +108,17 @@ pub fn read(
         }
     }
     for (name, dimension, slot) in [
-        ("inside_diameter", Dimension::Length, &mut h.inside_diameter_m),
+        (
+            "inside_diameter",
+            Dimension::Length,
+            &mut h.inside_diameter_m,
+        ),
         ("length", Dimension::Length, &mut h.length_m),
-        ("working_pressure", Dimension::Pressure, &mut h.working_pressure_pa),
+        (
+            "working_pressure",
+            Dimension::Pressure,
+            &mut h.working_pressure_pa,
+        ),
     ] {
         if touched(map, name)
             && let Some(v) = p.take(positive(&f, name, dimension))

@@ -21,10 +21,7 @@ use serde_json::{Map, Value, json};
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route(
-            "/api/v1/machines/{id}/inspections",
-            get(list).post(create),
-        )
+        .route("/api/v1/machines/{id}/inspections", get(list).post(create))
         .route("/api/v1/inspections/{id}", get(show))
 }
 
@@ -114,17 +111,24 @@ pub fn prepare(
     f.deny_unknown(FIELDS).map_err(|e| vec![e])?;
     let mut p = Problems::default();
     let kind = p.take(f.choice("kind", &KINDS));
-    let performed_on = p
-        .take(
-            super::draft::date(&f, "performed_on", Some(super::draft::latest_past())).and_then(
-                |d| d.ok_or_else(|| AppError::field("performed_on", "required", "the date of the inspection, YYYY-MM-DD, is required")),
-            ),
-        );
+    let performed_on = p.take(
+        super::draft::date(&f, "performed_on", Some(super::draft::latest_past())).and_then(|d| {
+            d.ok_or_else(|| {
+                AppError::field(
+                    "performed_on",
+                    "required",
+                    "the date of the inspection, YYYY-MM-DD, is required",
+                )
+            })
+        }),
+    );
     let hour_meter = p.take(f.opt_number_min("hour_meter", 0.0)).flatten();
     let inspector = p.take(shop_input::signer(&f, "inspector", user));
     let result = p.take(f.choice("result", &RESULTS));
     let items = p.take(items(&f));
-    let deficiencies = p.take(super::draft::text(&f, "deficiencies", 4000)).flatten();
+    let deficiencies = p
+        .take(super::draft::text(&f, "deficiencies", 4000))
+        .flatten();
     let corrective = p
         .take(super::draft::text(&f, "corrective_action", 4000))
         .flatten();

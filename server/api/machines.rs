@@ -85,8 +85,7 @@ async fn create(
 ) -> ApiResult<(StatusCode, Json<Value>)> {
     params.deny_unknown(&["units"])?;
     let asked = asked_units(&params, Some(&body))?;
-    let (fields, archived) =
-        machine_draft::read(&body, MachineFields::default()).map_err(first)?;
+    let (fields, archived) = machine_draft::read(&body, MachineFields::default()).map_err(first)?;
     if archived == Some(true) {
         return Err(AppError::field(
             "archived",
@@ -131,7 +130,10 @@ async fn show(
 ) -> ApiResult<Json<Value>> {
     params.deny_unknown(&["units"])?;
     let asked = params.units()?;
-    Ok(Json(reply(&load(&state, &id).await?, asked)))
+    let machine = load(&state, &id).await?;
+    let mut body = reply(&machine, asked);
+    body["due"] = super::reports::machine_due(&state, machine.id).await?; // reports
+    Ok(Json(body))
 }
 
 async fn update(
@@ -164,10 +166,14 @@ async fn archive(
     let id = path_id(&id, "machine")?;
     let asked = params.units()?;
     let mut tx = state.db.begin().await?;
-    let machine = store::archive(&mut tx, &actor.name, id).await.map_err(|e| match e {
-        crate::db::write::WriteError::NotFound(_) => AppError::not_found(format!("machine {id}")),
-        other => other.into(),
-    })?;
+    let machine = store::archive(&mut tx, &actor.name, id)
+        .await
+        .map_err(|e| match e {
+            crate::db::write::WriteError::NotFound(_) => {
+                AppError::not_found(format!("machine {id}"))
+            }
+            other => other.into(),
+        })?;
     tx.commit().await?;
     Ok(Json(reply(&machine, asked)))
 }

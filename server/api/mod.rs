@@ -5,6 +5,7 @@ use crate::error::AppError;
 use axum::Router;
 
 pub mod input;
+pub mod openapi; // proof
 
 // calc
 pub mod calc;
@@ -50,6 +51,7 @@ pub fn router() -> Router<AppState> {
         .merge(procedures::router())
         // reports
         .merge(reports::router())
+        .merge(openapi::router()) // proof
         .route("/api/{*rest}", axum::routing::any(api_not_found))
 }
 

@@ -140,7 +140,7 @@ impl Op {
                     .parameter_in(ParameterIn::Query)
                     .required(Required::False)
                     .description(Some(about))
-                    .schema(Some(schema)),
+                    .schema(Some(dsl::or_blank(schema))),
             );
         }
         if let Some(body) = self.body {
@@ -191,13 +191,27 @@ fn path_params(path: &str) -> Vec<&str> {
 }
 
 fn operation_id(method: &HttpMethod, path: &str) -> String {
-    let verb = format!("{method:?}").to_lowercase();
+    let verb = method_name(method);
     let rest: Vec<String> = path
         .trim_start_matches("/api/v1/")
         .split('/')
         .map(|s| s.trim_matches(|c| c == '{' || c == '}').replace('-', "_"))
         .collect();
     format!("{verb}_{}", rest.join("_"))
+}
+
+/// The method in lower case, as OpenAPI writes it.
+pub fn method_name(method: &HttpMethod) -> &'static str {
+    match method {
+        HttpMethod::Get => "get",
+        HttpMethod::Post => "post",
+        HttpMethod::Put => "put",
+        HttpMethod::Patch => "patch",
+        HttpMethod::Delete => "delete",
+        HttpMethod::Head => "head",
+        HttpMethod::Options => "options",
+        HttpMethod::Trace => "trace",
+    }
 }
 
 fn error_words(status: u16) -> &'static str {

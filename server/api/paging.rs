@@ -63,13 +63,17 @@ impl Params {
                 })?;
         }
         if let Some(text) = self.get("cursor") {
-            window.after_id = text.parse::<i64>().ok().filter(|n| *n >= 0).ok_or_else(|| {
-                AppError::field(
-                    "cursor",
-                    "invalid_cursor",
-                    "cursor must be the next_cursor of an earlier page",
-                )
-            })?;
+            window.after_id = text
+                .parse::<i64>()
+                .ok()
+                .filter(|n| *n >= 0)
+                .ok_or_else(|| {
+                    AppError::field(
+                        "cursor",
+                        "invalid_cursor",
+                        "cursor must be the next_cursor of an earlier page",
+                    )
+                })?;
         }
         Ok(window)
     }
@@ -78,9 +82,18 @@ impl Params {
     pub fn id(&self, name: &str) -> Result<Option<i64>, AppError> {
         match self.get(name) {
             None => Ok(None),
-            Some(text) => text.parse::<i64>().ok().filter(|n| *n > 0).map(Some).ok_or_else(
-                || AppError::field(name, "invalid", "must be the id of a record (a whole number)"),
-            ),
+            Some(text) => text
+                .parse::<i64>()
+                .ok()
+                .filter(|n| *n > 0)
+                .map(Some)
+                .ok_or_else(|| {
+                    AppError::field(
+                        name,
+                        "invalid",
+                        "must be the id of a record (a whole number)",
+                    )
+                }),
         }
     }
 

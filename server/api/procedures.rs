@@ -7,7 +7,9 @@ use super::paging::{Params, path_id, shown};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::quantity::{Dimension as D, UnitSystem};
-use crate::db::procedures::{self as store, KINDS, LimitRow, Procedure, ProcedureFields, ProcedureFilter};
+use crate::db::procedures::{
+    self as store, KINDS, LimitRow, Procedure, ProcedureFields, ProcedureFilter,
+};
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
@@ -62,7 +64,11 @@ fn limit_table(f: &Fields, kind: &str) -> Result<Vec<LimitRow>, AppError> {
         }
     };
     if list.len() > 20 {
-        return Err(AppError::field("limit_table", "too_long", "at most 20 rows"));
+        return Err(AppError::field(
+            "limit_table",
+            "too_long",
+            "at most 20 rows",
+        ));
     }
     let (amount, dimension) = limit_words(kind);
     let mut rows: Vec<LimitRow> = Vec::new();
@@ -78,7 +84,10 @@ fn limit_table(f: &Fields, kind: &str) -> Result<Vec<LimitRow>, AppError> {
         let from = row.quantity("from", D::Temperature)?;
         let value = row.quantity(amount, dimension)?;
         let per = super::draft::required_positive(&row, "per", D::Time)?;
-        if rows.last().is_some_and(|r| r.oil_temperature_from_k >= from) {
+        if rows
+            .last()
+            .is_some_and(|r| r.oil_temperature_from_k >= from)
+        {
             return Err(AppError::field(
                 row.path("from"),
                 "out_of_order",
@@ -154,10 +163,14 @@ fn read(
         }
     }
     if changed("oil_temperature_min") {
-        out.oil_temperature_min_k = p.take(f.opt_quantity("oil_temperature_min", D::Temperature)).flatten();
+        out.oil_temperature_min_k = p
+            .take(f.opt_quantity("oil_temperature_min", D::Temperature))
+            .flatten();
     }
     if changed("oil_temperature_max") {
-        out.oil_temperature_max_k = p.take(f.opt_quantity("oil_temperature_max", D::Temperature)).flatten();
+        out.oil_temperature_max_k = p
+            .take(f.opt_quantity("oil_temperature_max", D::Temperature))
+            .flatten();
     }
     if changed("duration")
         && let Some(d) = p.take(super::draft::required_positive(f, "duration", D::Time))
@@ -197,11 +210,13 @@ fn read(
             "conflict",
             "give cylinder_id or machine_kind, not both",
         )),
-        (false, false) if !p.has("cylinder_id") && !p.has("machine_kind") => p.push(AppError::field(
-            "cylinder_id",
-            "required",
-            "give the cylinder_id this procedure is for, or the machine_kind that shares it",
-        )),
+        (false, false) if !p.has("cylinder_id") && !p.has("machine_kind") => {
+            p.push(AppError::field(
+                "cylinder_id",
+                "required",
+                "give the cylinder_id this procedure is for, or the machine_kind that shares it",
+            ))
+        }
         _ => {}
     }
     if let (Some(lo), Some(hi)) = (out.oil_temperature_min_k, out.oil_temperature_max_k)
@@ -218,8 +233,13 @@ fn read(
 
 pub fn to_json(p: &Procedure, units: UnitSystem) -> Value {
     let (amount, dimension) = limit_words(&p.kind);
-    let fixed = match (p.limit_distance_m.or(p.limit_pressure_drop_pa), p.limit_period_s) {
-        (Some(a), Some(per)) => json!({amount: shown(Some(a), dimension, units), "per": shown(Some(per), D::Time, units)}),
+    let fixed = match (
+        p.limit_distance_m.or(p.limit_pressure_drop_pa),
+        p.limit_period_s,
+    ) {
+        (Some(a), Some(per)) => {
+            json!({amount: shown(Some(a), dimension, units), "per": shown(Some(per), D::Time, units)})
+        }
         _ => Value::Null,
     };
     json!({
@@ -263,7 +283,11 @@ async fn create(
     let f = Fields::new(&map);
     let units = body_units(&f)?;
     if f.has("archived") {
-        return Err(AppError::field("archived", "invalid", "a new procedure is not archived"));
+        return Err(AppError::field(
+            "archived",
+            "invalid",
+            "a new procedure is not archived",
+        ));
     }
     let fields = read(&f, &map, None).map_err(first)?;
     let mut tx = state.db.begin().await?;
@@ -307,11 +331,19 @@ async fn show(
 
 /// `GET /api/v1/procedures?kind=&cylinder=&machine_kind=&include_archived=&units=`.
 async fn list(State(state): State<AppState>, params: Params) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["kind", "cylinder", "machine_kind", "include_archived", "units"])?;
+    params.deny_unknown(&[
+        "kind",
+        "cylinder",
+        "machine_kind",
+        "include_archived",
+        "units",
+    ])?;
     let filter = ProcedureFilter {
         kind: params.choice("kind", &KINDS)?,
         cylinder_id: params.id("cylinder")?,
-        machine_kind: params.get("machine_kind").map(super::machine_draft::normalise_kind),
+        machine_kind: params
+            .get("machine_kind")
+            .map(super::machine_draft::normalise_kind),
         include_archived: params.flag("include_archived")?,
     };
     let units = params.units()?.unwrap_or_default();

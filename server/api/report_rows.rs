@@ -2,12 +2,11 @@
 //! `YYYY-MM-DD`; in CSV an absent value is an empty cell and a flag is `true` / `false`.
 
 use super::paging::shown;
-use crate::calc::analysis::scenario_words;
 use crate::calc::cautions;
 use crate::calc::quantity::{Dimension, UnitSystem, format as show_quantity};
 use crate::db::reports::DueItem;
 use crate::db::reports::fleet::OutOfService;
-use crate::db::reports::hazards::Hazards;
+use crate::db::reports::hazards::{Hazards, scenario_words};
 use crate::db::reports::hoses::HoseAge;
 use serde_json::{Value, json};
 use time::Date;

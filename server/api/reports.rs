@@ -6,7 +6,7 @@ use super::paging::Params;
 use super::report_rows::{self, Table};
 use crate::app::AppState;
 use crate::auth::Actor;
-use crate::calc::due::{Window, parse_day};
+use crate::calc::due::Window;
 use crate::calc::quantity::UnitSystem;
 use crate::db::reports::hazards::{self, HazardQuery};
 use crate::db::reports::{self, DueQuery, FleetFilter, fleet, hoses};
@@ -54,16 +54,13 @@ pub fn format(params: &Params) -> ApiResult<Format> {
     )
 }
 
-/// Today's date, UTC.
-pub fn today() -> Date {
-    time::OffsetDateTime::now_utc().date()
-}
+pub use super::draft::today;
 
 /// `as_of=YYYY-MM-DD`, default today (UTC).
 pub fn as_of(params: &Params) -> ApiResult<Date> {
     match params.get("as_of") {
         None => Ok(today()),
-        Some(text) => parse_day(text).filter(|_| text.len() == 10).ok_or_else(|| {
+        Some(text) => super::input::parse_date(text).ok_or_else(|| {
             AppError::field("as_of", "invalid_date", "must be a date written YYYY-MM-DD")
         }),
     }
@@ -287,4 +284,21 @@ async fn put_settings(
     let years = fields.opt_integer("hose_age_limit_years", 1, 100)?;
     let saved = hoses::set_hose_age_limit(&state.db, &actor.name, years.map(|y| y as i32)).await?;
     Ok(Json(settings_json(&saved)))
+}
+
+/// The `due` field of `GET /api/v1/machines/{id}`: everything due on the machine (its
+/// inspections, its cylinders' drift tests, its hoses) as of today, most overdue first.
+pub async fn machine_due(state: &AppState, machine_id: i64) -> ApiResult<Value> {
+    let items = reports::due_for_machine(&state.db, machine_id, today()).await?;
+    Ok(Value::Array(
+        items.iter().map(report_rows::due_json).collect(),
+    ))
+}
+
+/// The `due` field of `GET /api/v1/cylinders/{id}`: its drift test and its hoses, as of today.
+pub async fn cylinder_due(state: &AppState, cylinder_id: i64) -> ApiResult<Value> {
+    let items = reports::due_for_cylinder(&state.db, cylinder_id, today()).await?;
+    Ok(Value::Array(
+        items.iter().map(report_rows::due_json).collect(),
+    ))
 }

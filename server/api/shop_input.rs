@@ -113,34 +113,40 @@ pub fn client_token(f: &Fields) -> Result<Option<String>, AppError> {
 pub fn signer(f: &Fields, name: &str, user: Option<&str>) -> Result<String, AppError> {
     match super::draft::text(f, name, 120)? {
         Some(text) => Ok(text),
-        None => user.map(str::to_string).ok_or_else(|| {
-            AppError::field(name, "required", "sign the record with your name")
-        }),
+        None => user
+            .map(str::to_string)
+            .ok_or_else(|| AppError::field(name, "required", "sign the record with your name")),
     }
 }
 
-/// Reads the common fields into `problems`: `(tested_at, signer, client_token, amends, notes)`.
+/// The fields every shop record has besides its readings.
+#[derive(Clone, Debug, Default)]
+pub struct Common {
+    pub at: Option<String>,
+    pub signer: Option<String>,
+    pub token: Option<String>,
+    pub amends: Option<i64>,
+    pub notes: Option<String>,
+}
+
+/// Reads the common fields (`when`, the signer, `client_token`, `amends`, `notes`), recording
+/// each problem in `problems`.
 pub fn common(
     f: &Fields,
     when: &str,
     signer_field: &str,
     user: Option<&str>,
     problems: &mut Problems,
-) -> (
-    Option<String>,
-    Option<String>,
-    Option<String>,
-    Option<i64>,
-    Option<String>,
-) {
-    let at = problems.take(timestamp(f, when));
-    let who = problems.take(signer(f, signer_field, user));
-    let token = problems.take(client_token(f)).flatten();
-    let amends = problems.take(super::draft::id(f, "amends")).flatten();
-    let notes = problems
-        .take(super::draft::text(f, "notes", 2000))
-        .flatten();
-    (at, who, token, amends, notes)
+) -> Common {
+    Common {
+        at: problems.take(timestamp(f, when)),
+        signer: problems.take(signer(f, signer_field, user)),
+        token: problems.take(client_token(f)).flatten(),
+        amends: problems.take(super::draft::id(f, "amends")).flatten(),
+        notes: problems
+            .take(super::draft::text(f, "notes", 2000))
+            .flatten(),
+    }
 }
 
 /// The condition flags of a test: the oil temperature below or above the procedure's window
@@ -148,10 +154,14 @@ pub fn common(
 pub fn temperature_flags(procedure: Option<&Procedure>, start_k: f64, end_k: f64) -> Vec<String> {
     let mut flags = Vec::new();
     if let Some(p) = procedure {
-        if p.oil_temperature_min_k.is_some_and(|min| start_k.min(end_k) < min) {
+        if p.oil_temperature_min_k
+            .is_some_and(|min| start_k.min(end_k) < min)
+        {
             flags.push("oil_temperature_below_window".to_string());
         }
-        if p.oil_temperature_max_k.is_some_and(|max| start_k.max(end_k) > max) {
+        if p.oil_temperature_max_k
+            .is_some_and(|max| start_k.max(end_k) > max)
+        {
             flags.push("oil_temperature_above_window".to_string());
         }
     }

@@ -44,7 +44,11 @@ pub fn read(
     }
     let archived = p.take(f.opt_bool("archived")).flatten();
     if site.name.is_empty() && !p.has("name") {
-        p.push(AppError::field("name", "required", "a site name is required"));
+        p.push(AppError::field(
+            "name",
+            "required",
+            "a site name is required",
+        ));
     }
     p.finish((site, archived))
 }

@@ -3,9 +3,10 @@
 //! `time::Date` (proleptic Gregorian), hours as plain numbers on the machine's hour meter.
 //!
 //! Rules (ours, stated so they can be checked by hand):
-//! - the interval counts from the last record of the kind, or from the registration date when
-//!   there is none; hours count from that record's meter reading, or from 0 h when there is
-//!   none (nothing shows when the machine was last seen, so it errs toward due early);
+//! - the interval counts from the last record of the kind; hours count from that record's meter
+//!   reading, or from 0 h when it has none (it errs toward due early);
+//! - a scheduled kind never yet recorded is due on the registration date itself (an item of
+//!   unknown condition gets its first record at once; see [`first_due`]);
 //! - due on day `D` means the work may still be done on `D`; it is overdue from `D + 1`.
 //!   Due at `H` hours likewise: overdue once the meter reads more than `H`;
 //! - "whichever comes first": overdue if either basis is past; the `basis` is the one that is
@@ -115,6 +116,24 @@ pub fn parse_day(text: &str) -> Option<Date> {
     let month: u8 = head[5..7].parse().ok()?;
     let day: u8 = head[8..10].parse().ok()?;
     Date::from_calendar_date(year, Month::try_from(month).ok()?, day).ok()
+}
+
+/// The due point of a scheduled kind that has never been recorded: due on the registration
+/// date (basis `date`), so it is overdue from the day after. `None` when the kind has no
+/// interval (not scheduled).
+pub fn first_due(interval: Interval, registered: Date, as_of: Date, window: Window) -> Option<Due> {
+    if interval.is_unset() {
+        return None;
+    }
+    let on_registration = Interval {
+        days: Some(0),
+        hours: None,
+    };
+    let since = Baseline {
+        on: registered,
+        hour_meter: None,
+    };
+    next_due(on_registration, since, None, as_of, window)
 }
 
 /// `date + days`, `None` past the calendar's range.

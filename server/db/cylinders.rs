@@ -199,8 +199,19 @@ pub async fn insert(
     .bind(at)
     .fetch_one(&mut *conn)
     .await?;
-    let cylinder = get(conn, id).await?.ok_or(WriteError::NotFound("cylinder"))?;
-    audit::record(conn, actor, "create", "cylinder", id, None, Some(&snapshot(&cylinder))).await?;
+    let cylinder = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("cylinder"))?;
+    audit::record(
+        conn,
+        actor,
+        "create",
+        "cylinder",
+        id,
+        None,
+        Some(&snapshot(&cylinder)),
+    )
+    .await?;
     Ok(cylinder)
 }
 
@@ -213,7 +224,9 @@ pub async fn update(
     f: &CylinderFields,
     archived: Option<bool>,
 ) -> Result<Cylinder, WriteError> {
-    let before = get(conn, id).await?.ok_or(WriteError::NotFound("cylinder"))?;
+    let before = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("cylinder"))?;
     if f.machine_id != before.machine_id {
         machines::check_usable(conn, "machine_id", f.machine_id).await?;
         if before.hose_count > 0 {
@@ -261,7 +274,9 @@ pub async fn update(
     .bind(id)
     .execute(&mut *conn)
     .await?;
-    let after = get(conn, id).await?.ok_or(WriteError::NotFound("cylinder"))?;
+    let after = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("cylinder"))?;
     let action = match (&before.archived_at, &after.archived_at) {
         (None, Some(_)) => "archive",
         (Some(_), None) => "restore",
@@ -286,6 +301,8 @@ pub async fn archive(
     actor: &str,
     id: i64,
 ) -> Result<Cylinder, WriteError> {
-    let before = get(conn, id).await?.ok_or(WriteError::NotFound("cylinder"))?;
+    let before = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("cylinder"))?;
     update(conn, actor, id, &before.fields(), Some(true)).await
 }

@@ -230,7 +230,16 @@ pub async fn insert(
     .fetch_one(&mut *conn)
     .await?;
     let hose = get(conn, id).await?.ok_or(WriteError::NotFound("hose"))?;
-    audit::record(conn, actor, "create", "hose", id, None, Some(&snapshot(&hose))).await?;
+    audit::record(
+        conn,
+        actor,
+        "create",
+        "hose",
+        id,
+        None,
+        Some(&snapshot(&hose)),
+    )
+    .await?;
     Ok(hose)
 }
 
@@ -298,7 +307,11 @@ pub async fn update(
 }
 
 /// Archives a hose assembly (it leaves the lists; nothing is deleted).
-pub async fn archive(conn: &mut SqliteConnection, actor: &str, id: i64) -> Result<Hose, WriteError> {
+pub async fn archive(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    id: i64,
+) -> Result<Hose, WriteError> {
     let before = get(conn, id).await?.ok_or(WriteError::NotFound("hose"))?;
     update(conn, actor, id, &before.fields(), Some(true)).await
 }

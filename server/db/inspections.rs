@@ -204,7 +204,10 @@ async fn apply_to_machine(
 
 /// True when an inspection in force of the same machine, performed after `failed`, passed:
 /// a fail entered late for an earlier date does not undo a later pass.
-async fn passed_since(conn: &mut SqliteConnection, failed: &Inspection) -> Result<bool, sqlx::Error> {
+async fn passed_since(
+    conn: &mut SqliteConnection,
+    failed: &Inspection,
+) -> Result<bool, sqlx::Error> {
     let later: i64 = sqlx::query_scalar(
         "SELECT COUNT(*) FROM inspections i
          WHERE i.machine_id = ? AND i.id <> ? AND i.result <> 'fail' AND i.performed_on > ?

@@ -235,8 +235,19 @@ pub async fn insert(
     .fetch_one(&mut *conn)
     .await
     .map_err(map_unique(&f.unit_number))?;
-    let machine = get(conn, id).await?.ok_or(WriteError::NotFound("machine"))?;
-    audit::record(conn, actor, "create", "machine", id, None, Some(&snapshot(&machine))).await?;
+    let machine = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
+    audit::record(
+        conn,
+        actor,
+        "create",
+        "machine",
+        id,
+        None,
+        Some(&snapshot(&machine)),
+    )
+    .await?;
     Ok(machine)
 }
 
@@ -249,7 +260,9 @@ pub async fn update(
     f: &MachineFields,
     archived: Option<bool>,
 ) -> Result<Machine, WriteError> {
-    let before = get(conn, id).await?.ok_or(WriteError::NotFound("machine"))?;
+    let before = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
     if let Some(site_id) = f.site_id
         && f.site_id != before.site_id
     {
@@ -294,7 +307,9 @@ pub async fn update(
     .execute(&mut *conn)
     .await
     .map_err(map_unique(&f.unit_number))?;
-    let after = get(conn, id).await?.ok_or(WriteError::NotFound("machine"))?;
+    let after = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
     let action = match (&before.archived_at, &after.archived_at) {
         (None, Some(_)) => "archive",
         (Some(_), None) => "restore",
@@ -319,7 +334,9 @@ pub async fn archive(
     actor: &str,
     id: i64,
 ) -> Result<Machine, WriteError> {
-    let before = get(conn, id).await?.ok_or(WriteError::NotFound("machine"))?;
+    let before = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
     update(conn, actor, id, &before.fields(), Some(true)).await
 }
 
@@ -332,7 +349,9 @@ pub async fn set_status(
     id: i64,
     out_of_service: Option<(&str, &str)>,
 ) -> Result<Machine, WriteError> {
-    let before = get(conn, id).await?.ok_or(WriteError::NotFound("machine"))?;
+    let before = get(conn, id)
+        .await?
+        .ok_or(WriteError::NotFound("machine"))?;
     let mut fields = before.fields();
     match out_of_service {
         Some((reason, since)) => {

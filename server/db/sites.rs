@@ -104,7 +104,16 @@ pub async fn insert(
         }
     })?;
     let site = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
-    audit::record(conn, actor, "create", "site", id, None, Some(&snapshot(&site))).await?;
+    audit::record(
+        conn,
+        actor,
+        "create",
+        "site",
+        id,
+        None,
+        Some(&snapshot(&site)),
+    )
+    .await?;
     Ok(site)
 }
 
@@ -128,21 +137,23 @@ pub async fn update(
     if before.fields() == *fields && archived_at == before.archived_at {
         return Ok(before);
     }
-    sqlx::query("UPDATE sites SET name = ?, units = ?, archived_at = ?, updated_at = ? WHERE id = ?")
-        .bind(&fields.name)
-        .bind(&fields.units)
-        .bind(&archived_at)
-        .bind(super::now_rfc3339())
-        .bind(id)
-        .execute(&mut *conn)
-        .await
-        .map_err(|e| {
-            if is_unique_violation(&e) {
-                duplicate(&fields.name)
-            } else {
-                e.into()
-            }
-        })?;
+    sqlx::query(
+        "UPDATE sites SET name = ?, units = ?, archived_at = ?, updated_at = ? WHERE id = ?",
+    )
+    .bind(&fields.name)
+    .bind(&fields.units)
+    .bind(&archived_at)
+    .bind(super::now_rfc3339())
+    .bind(id)
+    .execute(&mut *conn)
+    .await
+    .map_err(|e| {
+        if is_unique_violation(&e) {
+            duplicate(&fields.name)
+        } else {
+            e.into()
+        }
+    })?;
     let after = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
     let action = match (&before.archived_at, &after.archived_at) {
         (None, Some(_)) => "archive",
@@ -169,7 +180,10 @@ pub async fn check_usable(
     site_id: i64,
 ) -> Result<Site, WriteError> {
     match get(conn, site_id).await? {
-        None => Err(WriteError::invalid(field, format!("there is no site {site_id}"))),
+        None => Err(WriteError::invalid(
+            field,
+            format!("there is no site {site_id}"),
+        )),
         Some(site) if site.archived_at.is_some() => Err(WriteError::invalid(
             field,
             format!("site {site_id} is archived; restore it or choose another"),

@@ -1,23 +1,18 @@
-//! Cylinder pages: the cylinder with its safety panel, the add form on a machine, the edit
-//! form, and archiving.
+//! Cylinder forms: add a cylinder to a machine, edit one, archive one. (The cylinder's page
+//! with its safety panel is in `cylinder_page.rs`.)
 
 use super::ctx::PageCtx;
 use super::forms::{self, Builder, FormPage, Posted, Values};
-use super::machine_page::{direction_words, hose_line, size_text, HoseLine};
-use super::safety::{self, Panel};
 use super::page_error;
 use crate::api::cylinder_draft::{self, Draft};
-use crate::api::paging::{Params, path_id, pick_units};
+use crate::api::paging::{path_id, pick_units};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::db::cylinders::{self as store, Cylinder, CylinderFields};
-use crate::db::hoses::{self, Hose};
 use crate::db::machines::{self, Machine};
 use crate::error::AppError;
-use crate::pages::view::{FieldErrors, q};
-use askama::Template;
-use askama_web::WebTemplate;
+use crate::pages::view::FieldErrors;
 use axum::Router;
 use axum::extract::{Path, State};
 use axum::response::{IntoResponse, Redirect, Response};
@@ -25,7 +20,7 @@ use axum::routing::{get, post};
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route("/cylinders/{id}", get(show))
+        .route("/cylinders/{id}", get(super::cylinder_page::show))
         .route("/cylinders/{id}/edit", get(edit_form).post(edit))
         .route("/cylinders/{id}/archive", post(archive))
         .route("/machines/{id}/cylinders/new", get(new_form).post(create))
@@ -33,105 +28,13 @@ pub fn router() -> Router<AppState> {
 
 const NUMBERS: &[&str] = &["drift_test_interval_days"];
 
-#[derive(Template, WebTemplate)]
-#[template(path = "cylinders/show.html")]
-pub struct CylinderPage {
-    pub ctx: PageCtx,
-    pub id: i64,
-    pub machine_id: i64,
-    pub unit_number: String,
-    pub function: String,
-    pub size: String,
-    pub bore: String,
-    pub rod: String,
-    pub stroke: String,
-    pub load_direction: &'static str,
-    pub max_load: String,
-    pub holding_pressure: String,
-    pub rated: String,
-    pub tube: String,
-    pub end_condition: String,
-    pub serial: String,
-    pub notes: String,
-    pub drift_interval: String,
-    pub archived_at: String,
-    pub units: &'static str,
-    pub panel: Panel,
-    pub headings: Vec<&'static str>,
-    pub hoses: Vec<HoseLine>,
-}
-
-async fn load(state: &AppState, id: &str) -> Result<Cylinder, Response> {
+pub(super) async fn load(state: &AppState, id: &str) -> Result<Cylinder, Response> {
     let id = path_id(id, "cylinder").map_err(page_error)?;
     match store::find(&state.db, id).await {
         Ok(Some(c)) => Ok(c),
         Ok(None) => Err(page_error(AppError::not_found(format!("cylinder {id}")))),
         Err(e) => Err(page_error(e.into())),
     }
-}
-
-async fn show(
-    State(state): State<AppState>,
-    ctx: PageCtx,
-    Path(id): Path<String>,
-    params: Params,
-) -> Response {
-    let c = match load(&state, &id).await {
-        Ok(c) => c,
-        Err(page) => return page,
-    };
-    let machine_hoses = match hoses::of_machine(&state.db, c.machine_id).await {
-        Ok(h) => h,
-        Err(e) => return page_error(e.into()),
-    };
-    let fitted: Vec<&Hose> = machine_hoses
-        .iter()
-        .filter(|h| h.cylinder_id == Some(c.id))
-        .collect();
-    let units = pick_units(params.units().ok().flatten(), c.site_units.as_deref());
-    let length = |si: f64| q(Some(si), Dimension::Length, units);
-    let panel = safety::panel(&c, &fitted, units);
-    CylinderPage {
-        ctx,
-        id: c.id,
-        machine_id: c.machine_id,
-        unit_number: c.unit_number.clone(),
-        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
-        size: size_text(&c, units),
-        bore: length(c.bore_m),
-        rod: length(c.rod_m),
-        stroke: length(c.stroke_m),
-        load_direction: direction_words(&c.load_direction),
-        max_load: q(c.max_load_n, Dimension::Force, units),
-        holding_pressure: q(c.holding_pressure_pa, Dimension::Pressure, units),
-        rated: q(c.rated_pressure_pa, Dimension::Pressure, units),
-        tube: match (c.tube_outside_diameter_m, c.tube_yield_pa) {
-            (Some(od), Some(y)) => format!(
-                "{} outside, yield {}",
-                length(od),
-                q(Some(y), Dimension::Pressure, units)
-            ),
-            (Some(od), None) => format!("{} outside", length(od)),
-            _ => "—".into(),
-        },
-        end_condition: c
-            .end_condition
-            .clone()
-            .map(|e| e.replace('_', "–"))
-            .unwrap_or_else(|| "not recorded (pinned–pinned assumed)".into()),
-        serial: c.serial.clone().unwrap_or_default(),
-        notes: c.notes.clone().unwrap_or_default(),
-        drift_interval: c
-            .drift_test_interval_days
-            .map(|d| format!("every {d} days"))
-            .unwrap_or_else(|| "no interval set".into()),
-        archived_at: c.archived_at.clone().unwrap_or_default(),
-        units: units.as_str(),
-        headings: panel.scenarios.iter().map(|s| safety::scenario_heading(s)).collect(),
-        panel,
-        hoses: fitted.iter().map(|h| hose_line(h, units)).collect(),
-    }
-    .into_response()
 }
 
 /// The values a cylinder form is filled with, in `units`.
@@ -149,11 +52,14 @@ pub fn values(c: Option<&CylinderFields>, units: UnitSystem) -> Values {
         ("rod", length(Some(c.rod_m))),
         ("stroke", length(Some(c.stroke_m))),
         ("load_direction", c.load_direction.clone()),
-        ("max_load", forms::quantity_text(c.max_load_n, Dimension::Force, units)),
+        (
+            "max_load",
+            forms::quantity_text(c.max_load_n, Dimension::Force, units),
+        ),
         ("holding_pressure", pressure(c.holding_pressure_pa)),
         ("rated_pressure", pressure(c.rated_pressure_pa)),
         ("tube_outside_diameter", length(c.tube_outside_diameter_m)),
-        ("tube_yield", pressure(c.tube_yield_pa)),
+        ("tube_yield", forms::stress_input(c.tube_yield_pa, units)),
         ("end_condition", c.end_condition.clone().unwrap_or_default()),
         ("serial", c.serial.clone().unwrap_or_default()),
         ("notes", c.notes.clone().unwrap_or_default()),
@@ -176,10 +82,17 @@ fn form(
 ) -> Response {
     let units = pick_units(None, machine.site_units.as_deref());
     let mut b = Builder::new(values, errors);
-    b.text("function", "Function", "What it moves, e.g. boom lift, left");
-    b.quantity("bore", "Bore", Dimension::Length, units).required = true;
-    b.quantity("rod", "Rod diameter", Dimension::Length, units).required = true;
-    b.quantity("stroke", "Stroke", Dimension::Length, units).required = true;
+    b.text(
+        "function",
+        "Function",
+        "What it moves, e.g. boom lift, left",
+    );
+    b.quantity("bore", "Bore", Dimension::Length, units)
+        .required = true;
+    b.quantity("rod", "Rod diameter", Dimension::Length, units)
+        .required = true;
+    b.quantity("stroke", "Stroke", Dimension::Length, units)
+        .required = true;
     b.select(
         "load_direction",
         "Held load",
@@ -190,11 +103,32 @@ fn form(
     )
     .required = true;
     b.quantity("max_load", "Highest load held", Dimension::Force, units);
-    b.quantity("holding_pressure", "…or highest holding pressure", Dimension::Pressure, units)
-        .hint = "If the load is not known: the gauge reading on the holding end".into();
-    b.quantity("rated_pressure", "Cylinder rated pressure", Dimension::Pressure, units);
-    b.quantity("tube_outside_diameter", "Tube outside diameter", Dimension::Length, units);
-    b.quantity("tube_yield", "Tube yield strength", Dimension::Pressure, units);
+    b.quantity(
+        "holding_pressure",
+        "…or highest holding pressure",
+        Dimension::Pressure,
+        units,
+    )
+    .hint = "If the load is not known: the gauge reading on the holding end".into();
+    b.quantity(
+        "rated_pressure",
+        "Cylinder rated pressure",
+        Dimension::Pressure,
+        units,
+    );
+    b.quantity(
+        "tube_outside_diameter",
+        "Tube outside diameter",
+        Dimension::Length,
+        units,
+    );
+    b.quantity(
+        "tube_yield",
+        "Tube yield strength",
+        Dimension::Pressure,
+        units,
+    )
+    .hint = "Of the tube material, e.g. 355 MPa (or 52 ksi)".into();
     b.select(
         "end_condition",
         "Mounting, for rod buckling",
@@ -211,7 +145,12 @@ fn form(
     b.textarea("notes", "Notes");
     let (title, action, cancel) = match editing {
         Some(c) => (
-            format!("Edit {}", c.function.clone().unwrap_or_else(|| format!("cylinder {}", c.id))),
+            format!(
+                "Edit {}",
+                c.function
+                    .clone()
+                    .unwrap_or_else(|| format!("cylinder {}", c.id))
+            ),
             format!("/cylinders/{}/edit", c.id),
             format!("/cylinders/{}", c.id),
         ),
@@ -226,7 +165,11 @@ fn form(
         title,
         intro: format!("On machine {}", machine.unit_number),
         action,
-        submit: if editing.is_some() { "Save changes" } else { "Add cylinder" },
+        submit: if editing.is_some() {
+            "Save changes"
+        } else {
+            "Add cylinder"
+        },
         cancel_href: cancel,
         inputs: b.finish(),
         summary: Vec::new(),
@@ -248,7 +191,13 @@ async fn new_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<St
         Err(e) => return page_error(e),
     };
     match machine(&state, id).await {
-        Ok(m) => form(ctx, &m, None, &values(None, UnitSystem::Metric), &FieldErrors::default()),
+        Ok(m) => form(
+            ctx,
+            &m,
+            None,
+            &values(None, UnitSystem::Metric),
+            &FieldErrors::default(),
+        ),
         Err(page) => page,
     }
 }
@@ -290,7 +239,9 @@ async fn create(
     };
     let saved = match cylinder_draft::read(&map, base) {
         Err(problems) => Err(problems),
-        Ok((fields, _)) => save(&state, &actor, None, &fields).await.map_err(|e| vec![e]),
+        Ok((fields, _)) => save(&state, &actor, None, &fields)
+            .await
+            .map_err(|e| vec![e]),
     };
     match saved {
         Ok(c) => Redirect::to(&format!("/cylinders/{}", c.id)).into_response(),
@@ -301,7 +252,11 @@ async fn create(
     }
 }
 
-async fn edit_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<String>) -> Response {
+async fn edit_form(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+) -> Response {
     let c = match load(&state, &id).await {
         Ok(c) => c,
         Err(page) => return page,
@@ -311,7 +266,13 @@ async fn edit_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<S
         Err(page) => return page,
     };
     let units = pick_units(None, m.site_units.as_deref());
-    form(ctx, &m, Some(&c), &values(Some(&c.fields()), units), &FieldErrors::default())
+    form(
+        ctx,
+        &m,
+        Some(&c),
+        &values(Some(&c.fields()), units),
+        &FieldErrors::default(),
+    )
 }
 
 async fn edit(
@@ -334,7 +295,9 @@ async fn edit(
     let map = posted.to_object(NUMBERS, Some(&before));
     let saved = match cylinder_draft::read(&map, Draft::from(c.fields())) {
         Err(problems) => Err(problems),
-        Ok((fields, _)) => save(&state, &actor, Some(c.id), &fields).await.map_err(|e| vec![e]),
+        Ok((fields, _)) => save(&state, &actor, Some(c.id), &fields)
+            .await
+            .map_err(|e| vec![e]),
     };
     match saved {
         Ok(c) => Redirect::to(&format!("/cylinders/{}", c.id)).into_response(),

@@ -96,17 +96,50 @@ pub fn quantity_text(si: Option<f64>, dimension: Dimension, units: UnitSystem) -
     }
 }
 
-/// The hint under a quantity input: the example in the site's units first.
+/// The hint under a quantity input: an example in the site's units first, then the other.
 pub fn quantity_hint(dimension: Dimension, units: UnitSystem) -> String {
-    let unit = quantity::display_unit(dimension, units);
-    let other = quantity::display_unit(
-        dimension,
-        match units {
-            UnitSystem::Us => UnitSystem::Metric,
-            UnitSystem::Metric => UnitSystem::Us,
-        },
-    );
-    format!("A number and its unit, e.g. in {unit} or {other}")
+    let (metric, us) = match dimension {
+        Dimension::Length => ("100 mm", "4 in"),
+        Dimension::Pressure => ("250 bar", "3600 psi"),
+        Dimension::Force => ("45 kN", "10000 lbf"),
+        _ => {
+            return format!(
+                "A number and its unit, e.g. {}",
+                quantity::example(dimension)
+            );
+        }
+    };
+    match units {
+        UnitSystem::Metric => format!("A number and its unit, e.g. {metric} (or {us})"),
+        UnitSystem::Us => format!("A number and its unit, e.g. {us} (or {metric})"),
+    }
+}
+
+/// A stress as a form shows it: six significant figures in MPa or ksi; empty when absent.
+pub fn stress_input(si: Option<f64>, units: UnitSystem) -> String {
+    let Some(si) = si else {
+        return String::new();
+    };
+    let unit = match units {
+        UnitSystem::Metric => "MPa",
+        UnitSystem::Us => "ksi",
+    };
+    match quantity::from_si(si, unit, Dimension::Pressure) {
+        Ok(v) => format!("{} {unit}", quantity::significant(v, 6)),
+        Err(_) => quantity_text(Some(si), Dimension::Pressure, units),
+    }
+}
+
+/// A stress for a page: MPa in metric, ksi in US units (`355 MPa`, `51.5 ksi`).
+pub fn stress_text(si: f64, units: UnitSystem) -> String {
+    let (unit, value) = match units {
+        UnitSystem::Metric => ("MPa", quantity::from_si(si, "MPa", Dimension::Pressure)),
+        UnitSystem::Us => ("ksi", quantity::from_si(si, "ksi", Dimension::Pressure)),
+    };
+    match value {
+        Ok(v) => format!("{} {unit}", quantity::significant(v, 4)),
+        Err(_) => quantity::format(si, Dimension::Pressure, units),
+    }
 }
 
 /// One input of a form, ready for `_field.html`.
@@ -233,13 +266,13 @@ pub fn summary(inputs: &[Input], errors: &FieldErrors) -> Vec<String> {
     errors
         .0
         .iter()
-        .map(|(field, message)| {
-            match inputs.iter().find(|i| i.name == field.as_str()) {
+        .map(
+            |(field, message)| match inputs.iter().find(|i| i.name == field.as_str()) {
                 Some(input) => format!("{}: {message}", input.label),
                 None if field.is_empty() => message.clone(),
                 None => format!("{field}: {message}"),
-            }
-        })
+            },
+        )
         .collect()
 }
 

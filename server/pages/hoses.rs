@@ -33,7 +33,10 @@ pub fn values(h: &HoseFields, units: UnitSystem) -> Values {
     let mut v = Values::new();
     let text = |s: &Option<String>| s.clone().unwrap_or_default();
     for (k, s) in [
-        ("cylinder_id", h.cylinder_id.map(|c| c.to_string()).unwrap_or_default()),
+        (
+            "cylinder_id",
+            h.cylinder_id.map(|c| c.to_string()).unwrap_or_default(),
+        ),
         ("port", text(&h.port)),
         ("circuit", text(&h.circuit)),
         ("spec", text(&h.spec)),
@@ -42,7 +45,10 @@ pub fn values(h: &HoseFields, units: UnitSystem) -> Values {
             "inside_diameter",
             forms::quantity_text(h.inside_diameter_m, Dimension::Length, units),
         ),
-        ("length", forms::quantity_text(h.length_m, Dimension::Length, units)),
+        (
+            "length",
+            forms::quantity_text(h.length_m, Dimension::Length, units),
+        ),
         (
             "working_pressure",
             forms::quantity_text(h.working_pressure_pa, Dimension::Pressure, units),
@@ -74,26 +80,54 @@ async fn form(
     cylinder_options.extend(on_machine.iter().map(|c| {
         (
             c.id.to_string(),
-            c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+            c.function
+                .clone()
+                .unwrap_or_else(|| format!("Cylinder {}", c.id)),
         )
     }));
     b.select("cylinder_id", "Cylinder", cylinder_options);
     b.select(
         "port",
         "Port",
-        forms::options(&[("", "None (circuit hose)"), ("cap", "Cap end"), ("rod", "Rod end")]),
+        forms::options(&[
+            ("", "None (circuit hose)"),
+            ("cap", "Cap end"),
+            ("rod", "Rod end"),
+        ]),
     );
-    b.text("circuit", "Circuit", "Needed without a cylinder, e.g. pump to valve, pressure line");
-    b.text("spec", "Type", "As the layline states it, e.g. SAE 100R2AT, EN 853 2SN, ISO 18752-AS");
+    b.text(
+        "circuit",
+        "Circuit",
+        "Needed without a cylinder, e.g. pump to valve, pressure line",
+    );
+    b.text(
+        "spec",
+        "Type",
+        "As the layline states it, e.g. SAE 100R2AT, EN 853 2SN, ISO 18752-AS",
+    );
     b.text("size", "Size", "Dash size or DN, e.g. -8 or DN12");
-    b.quantity("inside_diameter", "Inside diameter", Dimension::Length, units);
+    b.quantity(
+        "inside_diameter",
+        "Inside diameter",
+        Dimension::Length,
+        units,
+    );
     b.quantity("length", "Length", Dimension::Length, units);
-    b.quantity("working_pressure", "Maximum working pressure", Dimension::Pressure, units)
-        .hint = format!(
+    b.quantity(
+        "working_pressure",
+        "Maximum working pressure",
+        Dimension::Pressure,
+        units,
+    )
+    .hint = format!(
         "Of the assembly: the lower of hose and fittings. {}",
         forms::quantity_hint(Dimension::Pressure, units)
     );
-    b.text("made_in", "Made in", "Quarter and year on the layline, e.g. 2024-Q2");
+    b.text(
+        "made_in",
+        "Made in",
+        "Quarter and year on the layline, e.g. 2024-Q2",
+    );
     b.date("installed_on", "Installed on", "YYYY-MM-DD");
     b.date("replace_by", "Replace by", "YYYY-MM-DD");
     let (title, action, cancel) = match editing {
@@ -113,7 +147,11 @@ async fn form(
         title,
         intro: format!("On machine {}", machine.unit_number),
         action,
-        submit: if editing.is_some() { "Save changes" } else { "Add hose" },
+        submit: if editing.is_some() {
+            "Save changes"
+        } else {
+            "Add hose"
+        },
         cancel_href: cancel,
         inputs: b.finish(),
         summary: Vec::new(),
@@ -213,14 +251,26 @@ async fn create(
     }
 }
 
-async fn edit_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<String>) -> Response {
+async fn edit_form(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+) -> Response {
     let (hose, m) = match load(&state, &id).await {
         Ok(loaded) => loaded,
         Err(page) => return page,
     };
     let units = pick_units(None, m.site_units.as_deref());
     let values = values(&hose.fields(), units);
-    form(&state, ctx, &m, Some(&hose), &values, &FieldErrors::default()).await
+    form(
+        &state,
+        ctx,
+        &m,
+        Some(&hose),
+        &values,
+        &FieldErrors::default(),
+    )
+    .await
 }
 
 async fn edit(

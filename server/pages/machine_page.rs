@@ -67,6 +67,8 @@ pub struct MachinePage {
     pub units: &'static str,
     pub cylinders: Vec<CylinderLine>,
     pub hoses: Vec<HoseLine>,
+    /// What is due on the machine, its cylinders and hoses (filled by the reports work).
+    pub due: Vec<super::report_views::DueLine>,
 }
 
 /// `bore × rod × stroke` in the display units, e.g. `100 × 56 × 600 mm`.
@@ -148,14 +150,25 @@ pub async fn show(
         Ok(loaded) => loaded,
         Err(e) => return page_error(e),
     };
+    // reports: what is due, as of today
+    let due = match crate::db::reports::due_for_machine(&state.db, id, today()).await {
+        Ok(items) => items.iter().map(super::report_views::due_line).collect(),
+        Err(e) => return page_error(e.into()),
+    };
     let units = pick_units(params.units().ok().flatten(), m.site_units.as_deref());
     let cylinders = cylinder_rows
         .iter()
         .map(|c| {
-            let fitted: Vec<&Hose> = hose_rows.iter().filter(|h| h.cylinder_id == Some(c.id)).collect();
+            let fitted: Vec<&Hose> = hose_rows
+                .iter()
+                .filter(|h| h.cylinder_id == Some(c.id))
+                .collect();
             CylinderLine {
                 id: c.id,
-                function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+                function: c
+                    .function
+                    .clone()
+                    .unwrap_or_else(|| format!("Cylinder {}", c.id)),
                 size: size_text(c, units),
                 load_direction: direction_words(&c.load_direction),
                 rated: q(c.rated_pressure_pa, Dimension::Pressure, units),
@@ -196,6 +209,7 @@ pub async fn show(
         units: units.as_str(),
         cylinders,
         hoses: hose_rows.iter().map(|h| hose_line(h, units)).collect(),
+        due,
     }
     .into_response()
 }

@@ -1,20 +1,18 @@
-//! Fleet pages: the list with search and filters, a machine's page (its cylinders, hoses,
-//! status and intervals), and the add and edit forms.
+//! Machine forms: add and edit a machine, and archive one. (The fleet list is in `fleet.rs`,
+//! the machine's page in `machine_page.rs`.)
 
 use super::ctx::PageCtx;
-use super::forms::{self, Builder, Choice, FormPage, Posted, Values, encode};
+use super::forms::{self, Builder, FormPage, Posted, Values};
 use super::page_error;
-use crate::api::machine_draft::{self, STATUSES, normalise_kind};
-use crate::api::paging::{Params, path_id, pick_units};
+use crate::api::machine_draft;
+use crate::api::paging::{path_id, pick_units};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::quantity::{Dimension, UnitSystem};
-use crate::db::machines::{self as store, Machine, MachineFields, MachineFilter};
+use crate::db::machines::{self as store, Machine, MachineFields};
 use crate::db::sites;
 use crate::error::AppError;
 use crate::pages::view::FieldErrors;
-use askama::Template;
-use askama_web::WebTemplate;
 use axum::Router;
 use axum::extract::{Path, State};
 use axum::response::{IntoResponse, Redirect, Response};
@@ -22,7 +20,7 @@ use axum::routing::{get, post};
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route("/machines", get(list).post(create))
+        .route("/machines", get(super::fleet::list).post(create))
         .route("/machines/new", get(new_form))
         .route("/machines/{id}", get(super::machine_page::show))
         .route("/machines/{id}/edit", get(edit_form).post(edit))
@@ -38,122 +36,6 @@ const NUMBERS: &[&str] = &[
     "frequent_interval_days",
 ];
 
-/// One line of the fleet list.
-pub struct Line {
-    pub id: i64,
-    pub unit_number: String,
-    pub kind: String,
-    pub description: String,
-    pub site: String,
-    pub status: String,
-    pub cylinders: i64,
-    pub hoses: i64,
-    pub archived: bool,
-}
-
-#[derive(Template, WebTemplate)]
-#[template(path = "machines/list.html")]
-pub struct ListPage {
-    pub ctx: PageCtx,
-    pub lines: Vec<Line>,
-    pub q: String,
-    pub sites: Vec<Choice>,
-    pub kinds: Vec<Choice>,
-    pub statuses: Vec<Choice>,
-    pub archived: bool,
-    pub filtered: bool,
-    pub next_href: String,
-    pub problem: String,
-}
-
-fn choices(all: Vec<(String, String)>, current: Option<&str>) -> Vec<Choice> {
-    all.into_iter()
-        .map(|(value, label)| Choice {
-            selected: Some(value.as_str()) == current,
-            value,
-            label,
-        })
-        .collect()
-}
-
-async fn list(State(state): State<AppState>, ctx: PageCtx, params: Params) -> Response {
-    let mut problems = Vec::new();
-    let site_id = params.id("site").unwrap_or_else(|e| {
-        problems.push(e.parts().1);
-        None
-    });
-    let status = params.choice("status", STATUSES).unwrap_or_else(|e| {
-        problems.push(e.parts().1);
-        None
-    });
-    let problem = problems.join(" ");
-    let filter = MachineFilter {
-        site_id,
-        status,
-        kind: params.get("kind").map(normalise_kind),
-        q: params.get("q").map(str::to_string),
-        include_archived: params.flag("archived").unwrap_or(false),
-    };
-    let window = params.window().unwrap_or_default();
-    let page = match store::list(&state.db, &filter, window).await {
-        Ok(page) => page,
-        Err(e) => return page_error(e.into()),
-    };
-    let (all_sites, kinds) = match (sites::all_active(&state.db).await, store::kinds(&state.db).await) {
-        (Ok(s), Ok(k)) => (s, k),
-        (Err(e), _) | (_, Err(e)) => return page_error(e.into()),
-    };
-    let mut next_href = String::new();
-    if let Some(cursor) = page.next_cursor {
-        let mut query: Vec<String> = params
-            .0
-            .iter()
-            .filter(|(k, v)| k != "cursor" && !v.trim().is_empty())
-            .map(|(k, v)| format!("{}={}", encode(k), encode(v)))
-            .collect();
-        query.push(format!("cursor={cursor}"));
-        next_href = format!("/machines?{}", query.join("&"));
-    }
-    let site_text = filter.site_id.map(|s| s.to_string());
-    let mut site_options = vec![(String::new(), "Every site".to_string())];
-    site_options.extend(all_sites.iter().map(|s| (s.id.to_string(), s.name.clone())));
-    let mut kind_options = vec![(String::new(), "Every kind".to_string())];
-    kind_options.extend(kinds.into_iter().map(|k| (k.clone(), k)));
-    let status_options = vec![
-        (String::new(), "Any status".to_string()),
-        ("in_service".to_string(), "In service".to_string()),
-        ("out_of_service".to_string(), "Out of service".to_string()),
-    ];
-    let filtered = filter != MachineFilter::default();
-    ListPage {
-        ctx,
-        lines: page
-            .items
-            .iter()
-            .map(|m| Line {
-                id: m.id,
-                unit_number: m.unit_number.clone(),
-                kind: m.kind.clone(),
-                description: m.description.clone().unwrap_or_default(),
-                site: m.site_name.clone().unwrap_or_else(|| "—".into()),
-                status: m.status.clone(),
-                cylinders: m.cylinder_count,
-                hoses: m.hose_count,
-                archived: m.archived_at.is_some(),
-            })
-            .collect(),
-        q: filter.q.clone().unwrap_or_default(),
-        sites: choices(site_options, site_text.as_deref()),
-        kinds: choices(kind_options, filter.kind.as_deref()),
-        statuses: choices(status_options, filter.status.as_deref()),
-        archived: filter.include_archived,
-        filtered,
-        next_href,
-        problem,
-    }
-    .into_response()
-}
-
 /// The values a machine form is filled with, in `units`.
 pub fn values(m: &MachineFields, units: UnitSystem) -> Values {
     let mut v = Values::new();
@@ -161,24 +43,39 @@ pub fn values(m: &MachineFields, units: UnitSystem) -> Values {
         v.insert(k.to_string(), s);
     };
     put("unit_number", m.unit_number.clone());
-    put("site_id", m.site_id.map(|s| s.to_string()).unwrap_or_default());
+    put(
+        "site_id",
+        m.site_id.map(|s| s.to_string()).unwrap_or_default(),
+    );
     put("kind", m.kind.clone());
     put("description", m.description.clone().unwrap_or_default());
     put("serial", m.serial.clone().unwrap_or_default());
     put("status", m.status.clone());
-    put("out_of_service_reason", m.out_of_service_reason.clone().unwrap_or_default());
-    put("out_of_service_since", m.out_of_service_since.clone().unwrap_or_default());
+    put(
+        "out_of_service_reason",
+        m.out_of_service_reason.clone().unwrap_or_default(),
+    );
+    put(
+        "out_of_service_since",
+        m.out_of_service_since.clone().unwrap_or_default(),
+    );
     put(
         "relief_pressure",
         forms::quantity_text(m.relief_pressure_pa, Dimension::Pressure, units),
     );
     put("hour_meter", forms::number_text(m.hour_meter_h));
-    put("hour_meter_read_on", m.hour_meter_read_on.clone().unwrap_or_default());
+    put(
+        "hour_meter_read_on",
+        m.hour_meter_read_on.clone().unwrap_or_default(),
+    );
     put(
         "periodic_interval_days",
         forms::number_text(m.periodic_interval_days.map(|d| d as f64)),
     );
-    put("periodic_interval_hours", forms::number_text(m.periodic_interval_hours));
+    put(
+        "periodic_interval_hours",
+        forms::number_text(m.periodic_interval_hours),
+    );
     put(
         "frequent_interval_days",
         forms::number_text(m.frequent_interval_days.map(|d| d as f64)),
@@ -199,40 +96,94 @@ async fn form(
     };
     let units = pick_units(None, editing.and_then(|m| m.site_units.as_deref()));
     let mut b = Builder::new(values, errors);
-    b.text("unit_number", "Unit number", "As marked on the machine, e.g. HV-TH-07").required = true;
-    b.text("kind", "Kind of machine", "e.g. telehandler, excavator, scissor lift").required = true;
+    b.text(
+        "unit_number",
+        "Unit number",
+        "As marked on the machine, e.g. HV-TH-07",
+    )
+    .required = true;
+    b.text(
+        "kind",
+        "Kind of machine",
+        "e.g. telehandler, excavator, scissor lift",
+    )
+    .required = true;
     let mut site_options = vec![(String::new(), "No site yet".to_string())];
     site_options.extend(all_sites.iter().map(|s| (s.id.to_string(), s.name.clone())));
     b.select("site_id", "Site", site_options);
-    b.text("description", "Description", "Make and model, e.g. 3.5 t telehandler, 17 m");
+    b.text(
+        "description",
+        "Description",
+        "Make and model, e.g. 3.5 t telehandler, 17 m",
+    );
     b.text("serial", "Serial number", "");
     b.select(
         "status",
         "Status",
-        forms::options(&[("in_service", "In service"), ("out_of_service", "Out of service")]),
+        forms::options(&[
+            ("in_service", "In service"),
+            ("out_of_service", "Out of service"),
+        ]),
     );
-    b.text("out_of_service_reason", "Reason out of service", "Only when out of service");
-    b.date("out_of_service_since", "Out of service since", "YYYY-MM-DD; today if left empty");
-    b.quantity("relief_pressure", "System relief setting", Dimension::Pressure, units);
+    b.text(
+        "out_of_service_reason",
+        "Reason out of service",
+        "Only when out of service",
+    );
+    b.date(
+        "out_of_service_since",
+        "Out of service since",
+        "YYYY-MM-DD; today if left empty",
+    );
+    b.quantity(
+        "relief_pressure",
+        "System relief setting",
+        Dimension::Pressure,
+        units,
+    );
     b.number("hour_meter", "Hour meter reading", "Hours, a number");
-    b.date("hour_meter_read_on", "Hour meter read on", "YYYY-MM-DD; today if left empty");
-    b.number("periodic_interval_days", "Periodic inspection every", "Days");
-    b.number("periodic_interval_hours", "…or every", "Hours on the meter, whichever comes first");
-    b.number("frequent_interval_days", "Frequent inspection every", "Days");
+    b.date(
+        "hour_meter_read_on",
+        "Hour meter read on",
+        "YYYY-MM-DD; today if left empty",
+    );
+    b.number(
+        "periodic_interval_days",
+        "Periodic inspection every",
+        "Days",
+    );
+    b.number(
+        "periodic_interval_hours",
+        "…or every",
+        "Hours on the meter, whichever comes first",
+    );
+    b.number(
+        "frequent_interval_days",
+        "Frequent inspection every",
+        "Days",
+    );
     let (title, action, cancel) = match editing {
         Some(m) => (
             format!("Edit {}", m.unit_number),
             format!("/machines/{}/edit", m.id),
             format!("/machines/{}", m.id),
         ),
-        None => ("Add a machine".to_string(), "/machines".to_string(), "/machines".to_string()),
+        None => (
+            "Add a machine".to_string(),
+            "/machines".to_string(),
+            "/machines".to_string(),
+        ),
     };
     FormPage {
         ctx,
         title,
         intro: String::new(),
         action,
-        submit: if editing.is_some() { "Save changes" } else { "Add machine" },
+        submit: if editing.is_some() {
+            "Save changes"
+        } else {
+            "Add machine"
+        },
         cancel_href: cancel,
         inputs: b.finish(),
         summary: Vec::new(),
@@ -254,7 +205,9 @@ async fn create(
     let map = posted.to_object(NUMBERS, None);
     let saved = match machine_draft::read(&map, MachineFields::default()) {
         Err(problems) => Err(problems),
-        Ok((fields, _)) => save(&state, &actor, None, &fields).await.map_err(|e| vec![e]),
+        Ok((fields, _)) => save(&state, &actor, None, &fields)
+            .await
+            .map_err(|e| vec![e]),
     };
     match saved {
         Ok(m) => Redirect::to(&format!("/machines/{}", m.id)).into_response(),
@@ -289,14 +242,25 @@ async fn load(state: &AppState, id: &str) -> Result<Machine, Response> {
     }
 }
 
-async fn edit_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<String>) -> Response {
+async fn edit_form(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+) -> Response {
     let machine = match load(&state, &id).await {
         Ok(m) => m,
         Err(page) => return page,
     };
     let units = pick_units(None, machine.site_units.as_deref());
     let values = values(&machine.fields(), units);
-    form(&state, ctx, Some(&machine), &values, &FieldErrors::default()).await
+    form(
+        &state,
+        ctx,
+        Some(&machine),
+        &values,
+        &FieldErrors::default(),
+    )
+    .await
 }
 
 async fn edit(

@@ -18,7 +18,9 @@ pub mod login; // accounts
 pub mod view;
 
 // registry
+pub mod cylinder_page;
 pub mod cylinders;
+pub mod fleet;
 pub mod forms;
 pub mod hoses;
 pub mod machine_page;
@@ -26,7 +28,11 @@ pub mod machines;
 pub mod safety;
 pub mod sites;
 
+// shop
+pub mod shop;
+
 // reports
+pub mod report_overview;
 pub mod report_views;
 pub mod reports;
 
@@ -43,6 +49,8 @@ pub fn router() -> Router<AppState> {
         .merge(cylinders::router())
         .merge(hoses::router())
         .merge(sites::router())
+        // shop
+        .merge(shop::router())
         // reports
         .merge(reports::router())
         .fallback(not_found)

@@ -2,10 +2,10 @@
 //! printed at the top of each report (filters and time generated).
 
 use super::forms::{Choice, encode};
-use crate::calc::analysis::{component_words, scenario_words};
+use crate::calc::analysis::component_words;
 use crate::calc::quantity::{Dimension, UnitSystem, significant};
 use crate::db::reports::fleet::OutOfService;
-use crate::db::reports::hazards::{PressureHazard, TrendHazard};
+use crate::db::reports::hazards::{PressureHazard, TrendHazard, scenario_words};
 use crate::db::reports::hoses::HoseAge;
 use crate::db::reports::{DueItem, FleetFilter};
 use crate::db::sites::Site;
@@ -54,7 +54,11 @@ pub fn filter_form(
         statuses: vec![
             choice("", "Any status", status.is_none()),
             choice("in_service", "In service", status == Some("in_service")),
-            choice("out_of_service", "Out of service", status == Some("out_of_service")),
+            choice(
+                "out_of_service",
+                "Out of service",
+                status == Some("out_of_service"),
+            ),
         ],
     }
 }
@@ -103,7 +107,10 @@ pub fn query_string(pairs: &[(&str, String)]) -> String {
 /// The filter pairs of a fleet filter, as the API and the pages name them.
 pub fn filter_pairs(filter: &FleetFilter) -> Vec<(&'static str, String)> {
     vec![
-        ("site", filter.site_id.map(|s| s.to_string()).unwrap_or_default()),
+        (
+            "site",
+            filter.site_id.map(|s| s.to_string()).unwrap_or_default(),
+        ),
         ("kind", filter.machine_kind.clone().unwrap_or_default()),
         ("status", filter.status.clone().unwrap_or_default()),
     ]
@@ -112,12 +119,7 @@ pub fn filter_pairs(filter: &FleetFilter) -> Vec<(&'static str, String)> {
 /// The time a report was generated, for people: `2025-06-01 14:03 UTC`.
 pub fn generated_at() -> String {
     let now = time::OffsetDateTime::now_utc();
-    format!(
-        "{} {:02}:{:02} UTC",
-        now.date(),
-        now.hour(),
-        now.minute()
-    )
+    format!("{} {:02}:{:02} UTC", now.date(), now.hour(), now.minute())
 }
 
 /// One due item in words.
@@ -146,7 +148,11 @@ fn hours(h: f64) -> String {
 }
 
 fn day_count(n: i64) -> String {
-    if n == 1 { "1 day".into() } else { format!("{n} days") }
+    if n == 1 {
+        "1 day".into()
+    } else {
+        format!("{n} days")
+    }
 }
 
 /// How far past (or before) due, on the basis that comes first.
@@ -293,8 +299,14 @@ pub fn trend_line(t: &TrendHazard, units: UnitSystem) -> TrendLine {
         cylinder: t.cylinder_function.clone().unwrap_or_default(),
         crosses_on: t.crosses_on.to_string(),
         reached: t.reached,
-        latest: format!("{} per {period}", q(Some(t.latest_m), Dimension::Length, units)),
-        limit: format!("{} per {period}", q(Some(t.limit_m), Dimension::Length, units)),
+        latest: format!(
+            "{} per {period}",
+            q(Some(t.latest_m), Dimension::Length, units)
+        ),
+        limit: format!(
+            "{} per {period}",
+            q(Some(t.limit_m), Dimension::Length, units)
+        ),
         tests_used: t.tests_used,
     }
 }
@@ -321,7 +333,9 @@ pub fn hose_line(h: &HoseAge) -> HoseLine {
         _ => "unknown".into(),
     };
     let age_from = match (h.born_on, h.born_from) {
-        (Some(d), Some("made_in")) => format!("made {} ({d})", h.made_in.clone().unwrap_or_default()),
+        (Some(d), Some("made_in")) => {
+            format!("made {} ({d})", h.made_in.clone().unwrap_or_default())
+        }
         (Some(d), _) => format!("installed {d}"),
         _ => "no date on file".into(),
     };

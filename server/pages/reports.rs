@@ -12,7 +12,7 @@ use crate::api::paging::Params;
 use crate::api::reports as api;
 use crate::app::AppState;
 use crate::calc::quantity::UnitSystem;
-use crate::db::reports::fleet::{self, StatusCount};
+use crate::db::reports::fleet;
 use crate::db::reports::hazards::{self, HazardQuery};
 use crate::db::reports::{self, DueQuery, FleetFilter, hoses};
 use crate::db::sites::{self, Site};
@@ -31,7 +31,7 @@ const CSS: &str = include_str!("../../web/static/reports.css");
 
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route("/reports", get(overview))
+        .route("/reports", get(super::report_overview::overview))
         .route("/reports/due", get(due))
         .route("/reports/out-of-service", get(out_of_service))
         .route("/reports/hazards", get(hazard_page))
@@ -69,7 +69,13 @@ async fn choices(state: &AppState) -> Result<(Vec<Site>, Vec<String>), AppError>
     ))
 }
 
-fn header(as_of: Date, filter: &FleetFilter, all: &[Site], csv: &str, pairs: &[(&str, String)]) -> Header {
+pub fn header(
+    as_of: Date,
+    filter: &FleetFilter,
+    all: &[Site],
+    csv: &str,
+    pairs: &[(&str, String)],
+) -> Header {
     let mut pairs = pairs.to_vec();
     pairs.extend(views::filter_pairs(filter));
     pairs.push(("format", "csv".into()));
@@ -113,7 +119,10 @@ async fn due(State(state): State<AppState>, ctx: PageCtx, params: Params) -> Res
     };
     let raw = |name: &str| params.get(name).unwrap_or("").to_string();
     let parsed = api::due_query(&state, &params).await;
-    let query = parsed.as_ref().cloned().unwrap_or_else(|_| DueQuery::new(api::today()));
+    let query = parsed
+        .as_ref()
+        .cloned()
+        .unwrap_or_else(|_| DueQuery::new(api::today()));
     let form = views::filter_form(
         &query.as_of.to_string(),
         &raw("within_days"),
@@ -125,7 +134,14 @@ async fn due(State(state): State<AppState>, ctx: PageCtx, params: Params) -> Res
     let pairs = [
         ("as_of", query.as_of.to_string()),
         ("within_days", query.window.days.to_string()),
-        ("within_hours", query.window.hours.map(|h| h.to_string()).unwrap_or_default()),
+        (
+            "within_hours",
+            query
+                .window
+                .hours
+                .map(|h| h.to_string())
+                .unwrap_or_default(),
+        ),
     ];
     let mut page = DuePage {
         ctx,
@@ -234,7 +250,14 @@ async fn hazard_page(State(state): State<AppState>, ctx: PageCtx, params: Params
     let mut page = HazardPage {
         ctx,
         head: header(query.as_of, &query.filter, &all, "hazards", &pairs),
-        form: views::filter_form(&query.as_of.to_string(), &raw_days, "", &query.filter, &all, &kinds),
+        form: views::filter_form(
+            &query.as_of.to_string(),
+            &raw_days,
+            "",
+            &query.filter,
+            &all,
+            &kinds,
+        ),
         pressures: Vec::new(),
         hoses: Vec::new(),
         trends: Vec::new(),
@@ -253,9 +276,17 @@ async fn hazard_page(State(state): State<AppState>, ctx: PageCtx, params: Params
         (Ok(f), Ok(s)) => (f, s),
         (Err(e), _) | (_, Err(e)) => return page_error(e.into()),
     };
-    page.pressures = found.pressures.iter().map(|p| views::pressure_line(p, units)).collect();
+    page.pressures = found
+        .pressures
+        .iter()
+        .map(|p| views::pressure_line(p, units))
+        .collect();
     page.hoses = found.hoses.iter().map(views::hose_line).collect();
-    page.trends = found.trends.iter().map(|t| views::trend_line(t, units)).collect();
+    page.trends = found
+        .trends
+        .iter()
+        .map(|t| views::trend_line(t, units))
+        .collect();
     page.hose_age_limit = settings
         .hose_age_limit_years
         .map(|y| format!("{y} years"))
@@ -280,7 +311,10 @@ async fn hose_age(State(state): State<AppState>, ctx: PageCtx, params: Params) -
         Err(e) => return page_error(e),
     };
     let parsed = async {
-        Ok::<_, AppError>((api::as_of(&params)?, api::fleet_filter(&state, &params).await?))
+        Ok::<_, AppError>((
+            api::as_of(&params)?,
+            api::fleet_filter(&state, &params).await?,
+        ))
     }
     .await;
     let (as_of, filter) = parsed
@@ -342,97 +376,4 @@ async fn save_settings(
         Ok(_) => Redirect::to("/reports/hose-age").into_response(),
         Err(e) => page_error(e.into()),
     }
-}
-
-/// One site's machines by status, for the overview.
-pub struct SiteCount {
-    pub site: String,
-    pub site_id: Option<i64>,
-    pub in_service: i64,
-    pub out_of_service: i64,
-}
-
-#[derive(Template, WebTemplate)]
-#[template(path = "reports/overview.html")]
-pub struct OverviewPage {
-    pub ctx: PageCtx,
-    pub head: Header,
-    pub sites: Vec<SiteCount>,
-    pub total_in: i64,
-    pub total_out: i64,
-    pub due: Vec<DueLine>,
-    pub due_total: usize,
-    pub overdue_total: usize,
-    pub out: Vec<OutLine>,
-    pub pressures: usize,
-    pub hoses: usize,
-    pub trends: usize,
-}
-
-/// How many lines of each list the overview shows.
-pub const SHORT_LIST: usize = 8;
-
-fn site_counts(counts: &[StatusCount]) -> Vec<SiteCount> {
-    let mut out: Vec<SiteCount> = Vec::new();
-    for c in counts {
-        let line = match out.iter_mut().find(|s| s.site_id == c.site_id) {
-            Some(line) => line,
-            None => {
-                out.push(SiteCount {
-                    site: c.site_name.clone().unwrap_or_else(|| "No site".into()),
-                    site_id: c.site_id,
-                    in_service: 0,
-                    out_of_service: 0,
-                });
-                let last = out.len() - 1;
-                &mut out[last]
-            }
-        };
-        match c.status.as_str() {
-            "out_of_service" => line.out_of_service += c.machines,
-            _ => line.in_service += c.machines,
-        }
-    }
-    out
-}
-
-async fn overview(State(state): State<AppState>, ctx: PageCtx) -> Response {
-    let as_of = api::today();
-    let filter = FleetFilter::default();
-    let query = DueQuery::new(as_of);
-    let hazard_query = HazardQuery {
-        as_of,
-        within_days: DueQuery::DEFAULT_WITHIN_DAYS,
-        filter: filter.clone(),
-    };
-    let loaded = async {
-        Ok::<_, AppError>((
-            fleet::counts(&state.db, &filter).await?,
-            reports::due_list(&state.db, &query).await?,
-            fleet::out_of_service(&state.db, &filter).await?,
-            hazards::hazards(&state.db, &hazard_query).await?,
-        ))
-    }
-    .await;
-    let (counts, due, out, found) = match loaded {
-        Ok(all) => all,
-        Err(e) => return page_error(e),
-    };
-    let sites = site_counts(&counts);
-    let pairs = [("as_of", as_of.to_string())];
-    OverviewPage {
-        ctx,
-        head: header(as_of, &filter, &[], "due", &pairs),
-        total_in: sites.iter().map(|s| s.in_service).sum(),
-        total_out: sites.iter().map(|s| s.out_of_service).sum(),
-        sites,
-        due_total: due.len(),
-        overdue_total: due.iter().filter(|i| i.due.overdue).count(),
-        due: due.iter().take(SHORT_LIST).map(views::due_line).collect(),
-        out: out.iter().take(SHORT_LIST).map(views::out_line).collect(),
-        pressures: found.pressures.len(),
-        hoses: found.hoses.len(),
-        trends: found.trends.len(),
-    }
-    .into_response()
 }

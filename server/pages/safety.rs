@@ -135,13 +135,35 @@ fn worst(report: &CylinderReport) -> Status {
     }
 }
 
+/// Runs the engineering core for a registry cylinder. Rod buckling is kept only when the
+/// cylinder's mounting (end condition) is recorded: without it the core's default (pinned at
+/// both ends, free length twice the stroke) is a guess, and a guessed alarm on every long
+/// cylinder would teach people to ignore the real ones.
+pub fn analyse(
+    c: &Cylinder,
+    hoses: &[&Hose],
+    units: UnitSystem,
+) -> Result<(CylinderInput, LoadSource, CylinderReport), String> {
+    let (input, source) = input(c, hoses)?;
+    let mut report =
+        analysis::analyse(&input, units).map_err(|e| format!("{}: {}", e.field, e.message))?;
+    if c.end_condition.is_none() && report.buckling.take().is_some() {
+        let words = buckling_hazard_start();
+        report.hazards.retain(|h| !h.starts_with(words));
+    }
+    Ok((input, source, report))
+}
+
+/// How the core's buckling hazard sentence begins (see `calc::analysis`).
+fn buckling_hazard_start() -> &'static str {
+    "Rod: the compressive load"
+}
+
 /// The worst status of a cylinder's checks (`ok`, `low_margin`, `exceeds`), or `unknown` when
 /// the figures cannot be made.
 pub fn worst_status(c: &Cylinder, hoses: &[&Hose]) -> &'static str {
-    match input(c, hoses).and_then(|(i, _)| {
-        analysis::analyse(&i, UnitSystem::Metric).map_err(|e| e.message)
-    }) {
-        Ok(report) => worst(&report).as_str(),
+    match analyse(c, hoses, UnitSystem::Metric) {
+        Ok((_, _, report)) => worst(&report).as_str(),
         Err(_) => "unknown",
     }
 }
@@ -149,21 +171,11 @@ pub fn worst_status(c: &Cylinder, hoses: &[&Hose]) -> &'static str {
 /// The panel for a cylinder and the hoses fitted to it, in `units`.
 pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
     let p = |si: f64| q(Some(si), Dimension::Pressure, units);
-    let (input, source) = match input(c, hoses) {
+    let (input, source, report) = match analyse(c, hoses, units) {
         Ok(ok) => ok,
         Err(message) => {
             return Panel {
                 error: Some(message),
-                worst: "unknown",
-                ..Panel::default()
-            };
-        }
-    };
-    let report = match analysis::analyse(&input, units) {
-        Ok(report) => report,
-        Err(e) => {
-            return Panel {
-                error: Some(format!("{}: {}", e.field, e.message)),
                 worst: "unknown",
                 ..Panel::default()
             };
@@ -221,9 +233,9 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
             .map(|t| {
                 format!(
                     "hoop stress at the bore {} at {}, allowable {} (yield over {})",
-                    p(t.hoop_stress),
+                    crate::pages::forms::stress_text(t.hoop_stress, units),
                     p(t.pressure),
-                    p(t.allowable_stress),
+                    crate::pages::forms::stress_text(t.allowable_stress, units),
                     t.safety_factor
                 )
             })
@@ -240,7 +252,13 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
                     b.safety_factor
                 )
             })
-            .unwrap_or_default(),
+            .unwrap_or_else(|| {
+                if c.end_condition.is_none() {
+                    "not checked: record the mounting (end condition) to check it".into()
+                } else {
+                    String::new()
+                }
+            }),
         hazards: report.hazards.clone(),
         cautions: report.cautions.clone(),
         worst: worst(&report).as_str(),

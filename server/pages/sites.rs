@@ -40,13 +40,25 @@ fn inputs(values: &Values, errors: &FieldErrors) -> Vec<forms::Input> {
     b.select(
         "units",
         "Units its people read",
-        forms::options(&[("metric", "Metric (mm, bar, kN)"), ("us", "US (in, psi, lbf)")]),
+        forms::options(&[
+            ("metric", "Metric (mm, bar, kN)"),
+            ("us", "US (in, psi, lbf)"),
+        ]),
     );
     b.finish()
 }
 
 async fn page(state: &AppState, ctx: PageCtx, values: &Values, errors: &FieldErrors) -> Response {
-    let sites = match store::list(&state.db, false, Window { after_id: 0, limit: 200 }).await {
+    let sites = match store::list(
+        &state.db,
+        false,
+        Window {
+            after_id: 0,
+            limit: 200,
+        },
+    )
+    .await
+    {
         Ok(page) => page.items,
         Err(e) => return page_error(e.into()),
     };
@@ -57,7 +69,16 @@ async fn page(state: &AppState, ctx: PageCtx, values: &Values, errors: &FieldErr
         StatusCode::UNPROCESSABLE_ENTITY
     };
     let summary = forms::summary(&inputs, errors);
-    (status, SitesPage { ctx, sites, inputs, summary }).into_response()
+    (
+        status,
+        SitesPage {
+            ctx,
+            sites,
+            inputs,
+            summary,
+        },
+    )
+        .into_response()
 }
 
 async fn list(State(state): State<AppState>, ctx: PageCtx) -> Response {
@@ -97,7 +118,9 @@ async fn create(
     let map = posted.to_object(&[], None);
     let saved = match site_input::read(&map, empty()) {
         Err(problems) => Err(problems),
-        Ok((fields, _)) => save(&state, &actor, None, &fields).await.map_err(|e| vec![e]),
+        Ok((fields, _)) => save(&state, &actor, None, &fields)
+            .await
+            .map_err(|e| vec![e]),
     };
     match saved {
         Ok(_) => Redirect::to("/sites").into_response(),
@@ -138,7 +161,11 @@ fn edit_page(ctx: PageCtx, site: &Site, values: &Values, errors: &FieldErrors) -
     .respond(errors)
 }
 
-async fn edit_form(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<String>) -> Response {
+async fn edit_form(
+    State(state): State<AppState>,
+    ctx: PageCtx,
+    Path(id): Path<String>,
+) -> Response {
     match load(&state, &id).await {
         Ok(site) => edit_page(ctx, &site, &values(&site.fields()), &FieldErrors::default()),
         Err(page) => page,

@@ -9,8 +9,10 @@
 //! generated, not entered by anyone).
 
 mod batch;
+mod drift;
 mod fleet;
 mod history;
+mod kinds;
 mod machine;
 mod rng;
 mod tables;
@@ -84,7 +86,10 @@ impl Summary {
             rows as f64 / self.seconds.max(1e-9),
         );
         if c.refused > 0 {
-            text.push_str(&format!("; {} drift tests refused by the core and left out", c.refused));
+            text.push_str(&format!(
+                "; {} drift tests refused by the core and left out",
+                c.refused
+            ));
         }
         text
     }
@@ -167,9 +172,12 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
             opened.clone().into(),
             opened.clone().into(),
         ];
-        writer.push(&mut tx, tables::SITES, row).await.map_err(db_error)?;
+        writer
+            .push(&mut tx, tables::SITES, row)
+            .await
+            .map_err(db_error)?;
     }
-    for (plan, p) in fleet::KINDS.iter().zip(&ctx.procedures) {
+    for (plan, p) in kinds::KINDS.iter().zip(&ctx.procedures) {
         writer
             .push(&mut tx, tables::PROCEDURES, procedure_row(plan, p, &opened))
             .await
@@ -208,14 +216,20 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
         }
         since_commit += machines;
         if since_commit >= TRANSACTION_MACHINES {
-            writer.flush(&mut tx, &tables::ORDER).await.map_err(db_error)?;
+            writer
+                .flush(&mut tx, &tables::ORDER)
+                .await
+                .map_err(db_error)?;
             tx.commit().await.map_err(db_error)?;
             tx = conn.begin().await.map_err(db_error)?;
             defer_foreign_keys(&mut tx).await.map_err(db_error)?;
             since_commit = 0;
         }
     }
-    writer.flush(&mut tx, &tables::ORDER).await.map_err(db_error)?;
+    writer
+        .flush(&mut tx, &tables::ORDER)
+        .await
+        .map_err(db_error)?;
     tx.commit().await.map_err(db_error)?;
     maker
         .join()
@@ -238,7 +252,7 @@ fn stamp_of(day: Date) -> String {
 /// One drift procedure per machine kind: 10 minutes held at rated load, the kind's limit per
 /// 10 minutes, oil between 40 and 60 degC, mineral oil's expansion (invented procedures).
 fn procedures(first_id: i64) -> Vec<ProcedureSim> {
-    fleet::KINDS
+    kinds::KINDS
         .iter()
         .enumerate()
         .map(|(i, plan)| ProcedureSim {
@@ -253,7 +267,7 @@ fn procedures(first_id: i64) -> Vec<ProcedureSim> {
         .collect()
 }
 
-fn procedure_row(plan: &fleet::KindPlan, p: &ProcedureSim, created: &str) -> Vec<Val> {
+fn procedure_row(plan: &kinds::KindPlan, p: &ProcedureSim, created: &str) -> Vec<Val> {
     vec![
         p.id.into(),
         "drift".into(),

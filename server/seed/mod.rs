@@ -3,6 +3,7 @@
 //! the demo data obeys every rule a client must. And the scale generator for benchmarks.
 
 pub mod generate;
+pub mod history;
 
 use crate::api::{cylinder_draft, draft, hose_draft, machine_draft, sites as site_input};
 use crate::calc::bypass::{self, Line, Trapped};
@@ -18,9 +19,18 @@ use std::collections::HashMap;
 
 const SITES: &str = include_str!("../../seed-demo/sites.json");
 const FLEETS: [(&str, &str); 3] = [
-    ("fleet-north.json", include_str!("../../seed-demo/fleet-north.json")),
-    ("fleet-quarry.json", include_str!("../../seed-demo/fleet-quarry.json")),
-    ("fleet-port.json", include_str!("../../seed-demo/fleet-port.json")),
+    (
+        "fleet-north.json",
+        include_str!("../../seed-demo/fleet-north.json"),
+    ),
+    (
+        "fleet-quarry.json",
+        include_str!("../../seed-demo/fleet-quarry.json"),
+    ),
+    (
+        "fleet-port.json",
+        include_str!("../../seed-demo/fleet-port.json"),
+    ),
 ];
 
 /// Who the demo's audit rows name.
@@ -79,14 +89,18 @@ pub async fn load_demo(db: &Db) -> Result<String, String> {
     }
     let mut tx = db.begin().await.map_err(|e| e.to_string())?;
     let company = load_fleet(&mut tx).await?;
+    // shop: the demo's history (drift tests, inspections) loads here, in the same transaction.
     tx.commit().await.map_err(|e| e.to_string())?;
-    summary(db, &company).await
+    let history = history::load(db).await?;
+    Ok(format!("{}; {history}", summary(db, &company).await?))
 }
 
 async fn load_fleet(conn: &mut SqliteConnection) -> Result<String, String> {
-    let sites_file: Value =
-        serde_json::from_str(SITES).map_err(|e| format!("sites.json: {e}"))?;
-    let company = sites_file["company"].as_str().unwrap_or("Demo fleet").to_string();
+    let sites_file: Value = serde_json::from_str(SITES).map_err(|e| format!("sites.json: {e}"))?;
+    let company = sites_file["company"]
+        .as_str()
+        .unwrap_or("Demo fleet")
+        .to_string();
     let mut site_ids = HashMap::new();
     for value in sites_file["sites"].as_array().into_iter().flatten() {
         let mut map = object(value, "sites.json: a site")?;
@@ -168,8 +182,8 @@ async fn load_hose(
         map.insert("cylinder_id".into(), Value::from(id));
     }
     let what = format!("{what}: hose {}", map["spec"].as_str().unwrap_or("?"));
-    let (draft, _) = hose_draft::read(&map, hose_draft::Draft::default())
-        .map_err(|p| refused(&what, p))?;
+    let (draft, _) =
+        hose_draft::read(&map, hose_draft::Draft::default()).map_err(|p| refused(&what, p))?;
     let fields = hose_draft::finish(draft).map_err(|p| refused(&what, p))?;
     hoses::insert(conn, LOADER, at, &fields)
         .await
@@ -202,10 +216,21 @@ async fn summary(db: &Db, company: &str) -> Result<String, String> {
     ))
 }
 
+/// A hose fitted to a cylinder, with what the bypass check needs.
+#[derive(sqlx::FromRow)]
+struct FittedHose {
+    bore_m: f64,
+    rod_m: f64,
+    stroke_m: f64,
+    load_direction: String,
+    max_load_n: Option<f64>,
+    working_pressure_pa: Option<f64>,
+}
+
 /// How many cylinder hoses are rated below the pressure a piston seal bypass would put on them
 /// (the engineering core's `seal_bypass`, with the recorded highest load).
 pub async fn hoses_below_bypass(db: &Db) -> Result<usize, String> {
-    let rows: Vec<(f64, f64, f64, String, Option<f64>, Option<f64>)> = sqlx::query_as(
+    let rows: Vec<FittedHose> = sqlx::query_as(
         "SELECT c.bore_m, c.rod_m, c.stroke_m, c.load_direction, c.max_load_n,
                 h.working_pressure_pa
          FROM hoses h JOIN cylinders c ON c.id = h.cylinder_id
@@ -222,18 +247,18 @@ pub async fn hoses_below_bypass(db: &Db) -> Result<usize, String> {
     };
     Ok(rows
         .into_iter()
-        .filter(|(bore, rod, stroke, direction, load, rating)| {
+        .filter(|h| {
             let (Ok(geometry), Some(direction), Some(load), Some(rating)) = (
-                Geometry::new(*bore, *rod, *stroke),
-                LoadDirection::parse(direction),
-                load,
-                rating,
+                Geometry::new(h.bore_m, h.rod_m, h.stroke_m),
+                LoadDirection::parse(&h.load_direction),
+                h.max_load_n,
+                h.working_pressure_pa,
             ) else {
                 return false;
             };
-            bypass::seal_bypass(&geometry, stroke / 2.0, *load, direction, &trapped)
+            bypass::seal_bypass(&geometry, h.stroke_m / 2.0, load, direction, &trapped)
                 .final_pressure
-                .is_some_and(|p| p > *rating)
+                .is_some_and(|p| p > rating)
         })
         .count())
 }

@@ -37,7 +37,10 @@ async fn a_cylinder_in_inches_is_stored_in_metres_and_shown_in_the_asked_units()
     assert_eq!(body["bore"]["unit"], "in");
     assert!(close(body["bore"]["value"].as_f64().unwrap(), 4.0));
     // 10,000 lbf = 44,482.216152605 N (lbf = 4.4482216152605 N, NIST SP 811).
-    assert!(close(body["max_load"]["si"].as_f64().unwrap(), 44_482.216_152_605));
+    assert!(close(
+        body["max_load"]["si"].as_f64().unwrap(),
+        44_482.216_152_605
+    ));
     assert_eq!(body["load_direction"], "retract");
     assert_eq!(body["end_condition"], "pinned_pinned");
     assert_eq!(body["unit_number"], "HV-TH-01");
@@ -53,7 +56,8 @@ async fn every_kind_of_bad_cylinder_input_names_its_field() {
     let app = TestApp::new().await;
     let m = machine(&app, "HV-01").await;
     let archived = machine(&app, "HV-OLD").await;
-    app.post_json(&format!("/api/v1/machines/{archived}/archive"), &json!({})).await;
+    app.post_json(&format!("/api/v1/machines/{archived}/archive"), &json!({}))
+        .await;
     let good = json!({"machine_id": m, "bore": "100 mm", "rod": "56 mm", "stroke": "600 mm", "load_direction": "retract"});
     let cases: Vec<(&str, serde_json::Value)> = vec![
         ("rod", json!({"rod": "100 mm"})),
@@ -72,9 +76,15 @@ async fn every_kind_of_bad_cylinder_input_names_its_field() {
         ("max_load", json!({"max_load": "-3 kN"})),
         ("max_load", json!({"max_load": "3 bar"})),
         ("rated_pressure", json!({"rated_pressure": {"value": 210}})),
-        ("tube_outside_diameter", json!({"tube_outside_diameter": "90 mm"})),
+        (
+            "tube_outside_diameter",
+            json!({"tube_outside_diameter": "90 mm"}),
+        ),
         ("end_condition", json!({"end_condition": "welded"})),
-        ("drift_test_interval_days", json!({"drift_test_interval_days": 0})),
+        (
+            "drift_test_interval_days",
+            json!({"drift_test_interval_days": 0}),
+        ),
         ("notes", json!({"notes": "x".repeat(2001)})),
         ("colour", json!({"colour": "red"})),
     ];
@@ -103,11 +113,17 @@ async fn a_patch_is_checked_against_the_stored_geometry() {
     let (status, body) = app.patch_json(&path, &json!({"bore": null})).await;
     assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "bore");
     let (status, body) = app
-        .patch_json(&path, &json!({"rod": "2.5 in", "max_load": "40 kN", "function": null}))
+        .patch_json(
+            &path,
+            &json!({"rod": "2.5 in", "max_load": "40 kN", "function": null}),
+        )
         .await;
     assert_eq!(status, StatusCode::OK, "{body}");
     assert!(close(body["rod"]["si"].as_f64().unwrap(), 2.5 * INCH));
-    assert!(close(body["bore"]["si"].as_f64().unwrap(), 4.0 * INCH), "bore kept exactly");
+    assert!(
+        close(body["bore"]["si"].as_f64().unwrap(), 4.0 * INCH),
+        "bore kept exactly"
+    );
     assert!(body["function"].is_null());
     let log = audit(&app, "cylinder", id).await;
     assert_eq!(log.len(), 2, "refused patches leave no audit row");
@@ -124,11 +140,20 @@ async fn a_cylinder_moves_machine_only_without_hoses() {
     let fitted = cylinder(&app, a).await;
     hose(&app, fitted, "cap", "3000 psi").await;
     let (status, body) = app
-        .patch_json(&format!("/api/v1/cylinders/{free}"), &json!({"machine_id": b}))
+        .patch_json(
+            &format!("/api/v1/cylinders/{free}"),
+            &json!({"machine_id": b}),
+        )
         .await;
-    assert_eq!((status, body["machine_id"].clone()), (StatusCode::OK, json!(b)));
+    assert_eq!(
+        (status, body["machine_id"].clone()),
+        (StatusCode::OK, json!(b))
+    );
     let (status, body) = app
-        .patch_json(&format!("/api/v1/cylinders/{fitted}"), &json!({"machine_id": b}))
+        .patch_json(
+            &format!("/api/v1/cylinders/{fitted}"),
+            &json!({"machine_id": b}),
+        )
         .await;
     assert_field_error(status, &body, StatusCode::CONFLICT, "machine_id");
 }
@@ -138,25 +163,39 @@ async fn archived_cylinders_and_those_of_archived_machines_leave_the_list() {
     let app = TestApp::new().await;
     let north = site(&app, "North", "metric").await;
     let a = machine(&app, "HV-A").await;
-    app.patch_json(&format!("/api/v1/machines/{a}"), &json!({"site_id": north})).await;
+    app.patch_json(&format!("/api/v1/machines/{a}"), &json!({"site_id": north}))
+        .await;
     let b = machine(&app, "HV-B").await;
     let c1 = cylinder(&app, a).await;
     let c2 = cylinder(&app, a).await;
     let c3 = cylinder(&app, b).await;
-    let (status, body) = app.json("DELETE", &format!("/api/v1/cylinders/{c2}"), None).await;
-    assert_eq!((status, body["archived"].clone()), (StatusCode::OK, json!(true)));
-    app.post_json(&format!("/api/v1/machines/{b}/archive"), &json!({})).await;
+    let (status, body) = app
+        .json("DELETE", &format!("/api/v1/cylinders/{c2}"), None)
+        .await;
+    assert_eq!(
+        (status, body["archived"].clone()),
+        (StatusCode::OK, json!(true))
+    );
+    app.post_json(&format!("/api/v1/machines/{b}/archive"), &json!({}))
+        .await;
     let (_, list) = app.get_json("/api/v1/cylinders").await;
     assert_eq!(ids(&list), vec![c1]);
     let (_, all) = app.get_json("/api/v1/cylinders?archived=true").await;
     assert_eq!(ids(&all), vec![c1, c2, c3]);
-    let (_, by_site) = app.get_json(&format!("/api/v1/cylinders?site={north}&archived=1")).await;
+    let (_, by_site) = app
+        .get_json(&format!("/api/v1/cylinders?site={north}&archived=1"))
+        .await;
     assert_eq!(ids(&by_site), vec![c1, c2]);
     let (_, by_text) = app.get_json("/api/v1/cylinders?q=BOOM&machine=").await;
     assert_eq!(ids(&by_text), vec![c1]);
     let (status, one) = app.get_json(&format!("/api/v1/cylinders/{c2}")).await;
-    assert_eq!((status, one["archived"].clone()), (StatusCode::OK, json!(true)));
-    let (status, _) = app.post_json("/api/v1/cylinders/999/archive", &json!({})).await;
+    assert_eq!(
+        (status, one["archived"].clone()),
+        (StatusCode::OK, json!(true))
+    );
+    let (status, _) = app
+        .post_json("/api/v1/cylinders/999/archive", &json!({}))
+        .await;
     assert_eq!(status, StatusCode::NOT_FOUND);
 }
 

@@ -13,7 +13,8 @@ async fn a_hose_on_a_cylinder_port_takes_its_machine_from_the_cylinder() {
     let app = TestApp::new().await;
     let port = site(&app, "Port Road", "us").await;
     let m = machine(&app, "HV-BL-12").await;
-    app.patch_json(&format!("/api/v1/machines/{m}"), &json!({"site_id": port})).await;
+    app.patch_json(&format!("/api/v1/machines/{m}"), &json!({"site_id": port}))
+        .await;
     let c = cylinder(&app, m).await;
     let (status, body) = app
         .post_json(
@@ -64,19 +65,55 @@ async fn every_kind_of_bad_hose_input_names_its_field() {
         ("cylinder_id", json!({"machine_id": a, "port": "cap"})),
         ("circuit", json!({"machine_id": a})),
         ("machine_id", json!({"circuit": "pump line"})),
-        ("machine_id", json!({"machine_id": 404, "circuit": "pump line"})),
-        ("cylinder_id", json!({"machine_id": a, "cylinder_id": cb, "port": "rod"})),
+        (
+            "machine_id",
+            json!({"machine_id": 404, "circuit": "pump line"}),
+        ),
+        (
+            "cylinder_id",
+            json!({"machine_id": a, "cylinder_id": cb, "port": "rod"}),
+        ),
         ("cylinder_id", json!({"cylinder_id": 404, "port": "rod"})),
-        ("working_pressure", json!({"cylinder_id": ca, "port": "cap", "working_pressure": 3000})),
-        ("working_pressure", json!({"cylinder_id": ca, "port": "cap", "working_pressure": "3000 in"})),
-        ("length", json!({"cylinder_id": ca, "port": "cap", "length": "0 mm"})),
-        ("made_in", json!({"cylinder_id": ca, "port": "cap", "made_in": "2024-Q5"})),
-        ("made_in", json!({"cylinder_id": ca, "port": "cap", "made_in": "June 2024"})),
-        ("installed_on", json!({"cylinder_id": ca, "port": "cap", "installed_on": "2024-13-01"})),
-        ("installed_on", json!({"cylinder_id": ca, "port": "cap", "made_in": "2024-Q3", "installed_on": "2024-06-30"})),
-        ("replace_by", json!({"cylinder_id": ca, "port": "cap", "installed_on": "2024-06-30", "replace_by": "2024-01-01"})),
-        ("size", json!({"cylinder_id": ca, "port": "cap", "size": "x".repeat(21)})),
-        ("colour", json!({"cylinder_id": ca, "port": "cap", "colour": "black"})),
+        (
+            "working_pressure",
+            json!({"cylinder_id": ca, "port": "cap", "working_pressure": 3000}),
+        ),
+        (
+            "working_pressure",
+            json!({"cylinder_id": ca, "port": "cap", "working_pressure": "3000 in"}),
+        ),
+        (
+            "length",
+            json!({"cylinder_id": ca, "port": "cap", "length": "0 mm"}),
+        ),
+        (
+            "made_in",
+            json!({"cylinder_id": ca, "port": "cap", "made_in": "2024-Q5"}),
+        ),
+        (
+            "made_in",
+            json!({"cylinder_id": ca, "port": "cap", "made_in": "June 2024"}),
+        ),
+        (
+            "installed_on",
+            json!({"cylinder_id": ca, "port": "cap", "installed_on": "2024-13-01"}),
+        ),
+        (
+            "installed_on",
+            json!({"cylinder_id": ca, "port": "cap", "made_in": "2024-Q3", "installed_on": "2024-06-30"}),
+        ),
+        (
+            "replace_by",
+            json!({"cylinder_id": ca, "port": "cap", "installed_on": "2024-06-30", "replace_by": "2024-01-01"}),
+        ),
+        (
+            "size",
+            json!({"cylinder_id": ca, "port": "cap", "size": "x".repeat(21)}),
+        ),
+        (
+            "colour",
+            json!({"cylinder_id": ca, "port": "cap", "colour": "black"}),
+        ),
     ];
     for (field, body) in cases {
         let (status, answer) = app.post_json("/api/v1/hoses", &body).await;
@@ -94,23 +131,43 @@ async fn a_hose_patch_validates_the_merged_record_and_archive_keeps_it() {
     let id = hose(&app, c, "cap", "3500 psi").await;
     let path = format!("/api/v1/hoses/{id}");
     let (status, body) = app.patch_json(&path, &json!({"cylinder_id": null})).await;
-    assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "cylinder_id");
+    assert_field_error(
+        status,
+        &body,
+        StatusCode::UNPROCESSABLE_ENTITY,
+        "cylinder_id",
+    );
     let (status, body) = app
-        .patch_json(&path, &json!({"cylinder_id": null, "port": null, "circuit": "return line"}))
+        .patch_json(
+            &path,
+            &json!({"cylinder_id": null, "port": null, "circuit": "return line"}),
+        )
         .await;
     assert_eq!(status, StatusCode::OK, "{body}");
     assert_eq!(body["circuit"], "return line");
     let (status, body) = app.patch_json(&path, &json!({"port": "rod"})).await;
-    assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "cylinder_id");
+    assert_field_error(
+        status,
+        &body,
+        StatusCode::UNPROCESSABLE_ENTITY,
+        "cylinder_id",
+    );
     let (status, body) = app.post_json(&format!("{path}/archive"), &json!({})).await;
-    assert_eq!((status, body["archived"].clone()), (StatusCode::OK, json!(true)));
+    assert_eq!(
+        (status, body["archived"].clone()),
+        (StatusCode::OK, json!(true))
+    );
     let (_, list) = app.get_json("/api/v1/hoses").await;
     assert!(ids(&list).is_empty());
     let (_, all) = app.get_json("/api/v1/hoses?archived=true").await;
     assert_eq!(ids(&all), vec![id]);
     let (status, _) = app.json("DELETE", "/api/v1/hoses/999", None).await;
     assert_eq!(status, StatusCode::NOT_FOUND);
-    let actions: Vec<String> = audit(&app, "hose", id).await.into_iter().map(|r| r.0).collect();
+    let actions: Vec<String> = audit(&app, "hose", id)
+        .await
+        .into_iter()
+        .map(|r| r.0)
+        .collect();
     assert_eq!(actions, ["create", "update", "archive"]);
 }
 

@@ -14,9 +14,15 @@ mod helpers;
 mod cylinders;
 mod demo;
 mod hoses;
+mod machine_lists;
 mod machines;
 mod registry_fixtures;
+mod registry_forms;
 mod registry_pages;
 mod sites;
+// shop
+mod drift_tests;
+mod inspections;
+mod shop_pages;
 // reports
 mod reports;

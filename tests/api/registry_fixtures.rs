@@ -23,7 +23,11 @@ pub async fn machine_with(app: &TestApp, body: Value) -> Value {
 
 /// Creates a telehandler with only the required fields; returns its id.
 pub async fn machine(app: &TestApp, unit_number: &str) -> i64 {
-    machine_with(app, json!({"unit_number": unit_number, "kind": "telehandler"})).await["id"]
+    machine_with(
+        app,
+        json!({"unit_number": unit_number, "kind": "telehandler"}),
+    )
+    .await["id"]
         .as_i64()
         .expect("machine id")
 }
@@ -76,7 +80,8 @@ pub async fn audit(app: &TestApp, entity: &str, id: i64) -> Vec<(String, Value, 
     .fetch_all(&app.db)
     .await
     .expect("audit rows");
-    let parse = |t: Option<String>| t.map_or(Value::Null, |t| serde_json::from_str(&t).expect("json"));
+    let parse =
+        |t: Option<String>| t.map_or(Value::Null, |t| serde_json::from_str(&t).expect("json"));
     rows.into_iter()
         .map(|(action, before, after)| (action, parse(before), parse(after)))
         .collect()

@@ -6,3 +6,4 @@ mod due;
 mod fleet;
 mod lists;
 mod pages;
+mod resources;

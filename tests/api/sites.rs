@@ -9,7 +9,10 @@ use serde_json::json;
 async fn a_site_is_created_read_listed_and_renamed() {
     let app = TestApp::new().await;
     let (status, created) = app
-        .post_json("/api/v1/sites", &json!({"name": "North Yard", "units": "us"}))
+        .post_json(
+            "/api/v1/sites",
+            &json!({"name": "North Yard", "units": "us"}),
+        )
         .await;
     assert_eq!(status, StatusCode::CREATED, "{created}");
     let id = created["id"].as_i64().expect("id");
@@ -26,7 +29,10 @@ async fn a_site_is_created_read_listed_and_renamed() {
         .await;
     assert_eq!(status, StatusCode::OK, "{updated}");
     assert_eq!(updated["units"], "metric");
-    assert_eq!(updated["name"], "North Yard", "a PATCH keeps what it does not send");
+    assert_eq!(
+        updated["name"], "North Yard",
+        "a PATCH keeps what it does not send"
+    );
 
     let (status, list) = app.get_json("/api/v1/sites").await;
     assert_eq!(status, StatusCode::OK);
@@ -43,10 +49,15 @@ async fn a_site_is_created_read_listed_and_renamed() {
 #[tokio::test]
 async fn a_site_without_a_name_or_with_unknown_units_is_refused_naming_the_field() {
     let app = TestApp::new().await;
-    let (status, body) = app.post_json("/api/v1/sites", &json!({"units": "metric"})).await;
+    let (status, body) = app
+        .post_json("/api/v1/sites", &json!({"units": "metric"}))
+        .await;
     assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "name");
     let (status, body) = app
-        .post_json("/api/v1/sites", &json!({"name": "Yard", "units": "imperial"}))
+        .post_json(
+            "/api/v1/sites",
+            &json!({"name": "Yard", "units": "imperial"}),
+        )
         .await;
     assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "units");
     let (status, body) = app
@@ -67,7 +78,10 @@ async fn a_second_site_of_the_same_name_is_a_conflict() {
     assert_field_error(status, &body, StatusCode::CONFLICT, "name");
     let other = site(&app, "Port Road", "us").await;
     let (status, body) = app
-        .patch_json(&format!("/api/v1/sites/{other}"), &json!({"name": "Quarry Lane"}))
+        .patch_json(
+            &format!("/api/v1/sites/{other}"),
+            &json!({"name": "Quarry Lane"}),
+        )
         .await;
     assert_field_error(status, &body, StatusCode::CONFLICT, "name");
     assert_ne!(first, other);
@@ -76,11 +90,17 @@ async fn a_second_site_of_the_same_name_is_a_conflict() {
 #[tokio::test]
 async fn unreadable_bodies_are_4xx_never_500() {
     let app = TestApp::new().await;
-    let (status, _) = app.post_raw("/api/v1/sites", "application/json", "{not json").await;
+    let (status, _) = app
+        .post_raw("/api/v1/sites", "application/json", "{not json")
+        .await;
     assert_eq!(status, StatusCode::BAD_REQUEST);
-    let (status, _) = app.post_raw("/api/v1/sites", "application/json", "[1, 2]").await;
+    let (status, _) = app
+        .post_raw("/api/v1/sites", "application/json", "[1, 2]")
+        .await;
     assert_eq!(status, StatusCode::BAD_REQUEST);
-    let (status, _) = app.post_raw("/api/v1/sites", "text/plain", "name=Yard").await;
+    let (status, _) = app
+        .post_raw("/api/v1/sites", "text/plain", "name=Yard")
+        .await;
     assert_eq!(status, StatusCode::UNSUPPORTED_MEDIA_TYPE);
 }
 

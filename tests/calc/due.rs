@@ -99,8 +99,35 @@ fn the_window_reaches_as_of_plus_within_days_inclusive() {
 }
 
 #[test]
-fn never_done_counts_from_the_registration_date() {
-    // [C] registered 2025-02-10, every 90 days: 18 days to 02-28, 31 to 03-31, 30 to 04-30,
+fn never_done_is_due_on_the_registration_date_itself() {
+    // The rule: a machine or cylinder never inspected or tested is due from the day it
+    // was registered. [C] registered 2025-02-10, as of 2025-02-13: 3 days overdue, by date.
+    let window = loadhold::calc::due::Window {
+        days: 30,
+        hours: None,
+    };
+    let d = loadhold::calc::due::first_due(
+        days(90),
+        date!(2025 - 02 - 10),
+        date!(2025 - 02 - 13),
+        window,
+    )
+    .expect("scheduled");
+    assert_eq!(d.due_on, Some(date!(2025 - 02 - 10)));
+    assert_eq!(d.due_at_hours, None);
+    assert!(d.overdue);
+    assert_eq!(d.days_overdue, Some(3));
+    // Not scheduled at all: never due.
+    let unset = loadhold::calc::due::Interval::default();
+    assert!(
+        loadhold::calc::due::first_due(unset, date!(2025 - 02 - 10), date!(2025 - 02 - 13), window)
+            .is_none()
+    );
+}
+
+#[test]
+fn an_interval_counted_from_a_given_day_lands_on_the_calendar_day() {
+    // [C] from 2025-02-10, every 90 days: 18 days to 02-28, 31 to 03-31, 30 to 04-30,
     // 11 to 05-11 = 90.
     let d = due(
         days(90),
@@ -364,4 +391,23 @@ fn lists_sort_the_furthest_overdue_first_then_due_soon_then_the_rest() {
     let order: Vec<_> = items.iter().map(|d| d.days_overdue.unwrap()).collect();
     // [C] 03-03 to 06-01: 28 + 30 + 31 + 1 = 90 days.
     assert_eq!(order, vec![90, 2, -4, -19, -183]);
+}
+
+#[test]
+fn stored_dates_and_timestamps_read_as_their_calendar_day() {
+    assert_eq!(due::parse_day("2025-06-01"), Some(date!(2025 - 06 - 01)));
+    assert_eq!(
+        due::parse_day("2025-06-01T23:59:59Z"),
+        Some(date!(2025 - 06 - 01))
+    );
+    for bad in [
+        "2025-6-1",
+        "2025-02-30",
+        "+202-06-01",
+        "June 2025",
+        "",
+        "2025-06",
+    ] {
+        assert_eq!(due::parse_day(bad), None, "{bad:?}");
+    }
 }

@@ -342,3 +342,59 @@ async fn the_storage_layer_commits_with_a_full_fsync_in_wal_mode() {
     assert!(synchronous >= 2, "PRAGMA synchronous = {synchronous}, want FULL (2) or EXTRA (3)");
     assert_eq!(journal, "wal");
 }
+
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error() {
+    // A read-then-write transaction that starts as a reader must not fail with "database is
+    // locked" when another writer commits first: each edit waits its turn instead.
+    let dir = TempDir::new("edits");
+    let out = artifacts("crash_concurrent_edits");
+    let db = dir.path().join("fleet.sqlite");
+    migrate(&db);
+    let token = create_token(&db, "editors", "manager");
+    let server = Server::start(&db, &out.join("server.log")).await;
+    let http = server.http().with_bearer(&token);
+    let made = http
+        .post_json("/api/v1/machines", &json!({"unit_number": "EDIT-1", "kind": "forklift"}))
+        .await
+        .expect("create");
+    assert_eq!(made.status, 201, "{}", made.text());
+    let id = made.json()["id"].as_i64().expect("id");
+    let mut editors = Vec::new();
+    for client in 0..CLIENTS {
+        let http = http.clone();
+        editors.push(tokio::spawn(async move {
+            let mut answers = Vec::new();
+            for i in 0..25 {
+                let body = json!({"description": format!("edit {i} by client {client} (test data)")});
+                let reply = http
+                    .send(
+                        hyper::Method::PATCH,
+                        &format!("/api/v1/machines/{id}"),
+                        Some("application/json"),
+                        body.to_string().into_bytes(),
+                    )
+                    .await
+                    .expect("PATCH");
+                answers.push((reply.status, reply.text()));
+            }
+            answers
+        }));
+    }
+    let mut failed = Vec::new();
+    for editor in editors {
+        for (status, text) in editor.await.expect("editor") {
+            if status != 200 {
+                failed.push(format!("{status}: {text}"));
+            }
+        }
+    }
+    assert!(
+        failed.is_empty(),
+        "{} of {} concurrent edits failed, e.g. {:?}\n{}",
+        failed.len(),
+        CLIENTS * 25,
+        failed.first(),
+        server.log_tail()
+    );
+}

@@ -5,5 +5,6 @@
 mod browser;
 mod crash;
 mod http;
+mod openapi;
 mod server;
 mod smoke;

@@ -45,9 +45,20 @@ pub fn int_range(min: i64, max: i64) -> S {
         .into()
 }
 
-/// An id of a stored record (a positive whole number).
+/// An id of a stored record (a positive whole number that fits in 64 bits).
 pub fn id() -> S {
-    typed(Type::Integer).minimum(Some(1.0)).into()
+    typed(Type::Integer)
+        .minimum(Some(1.0))
+        .maximum(Some(9e18))
+        .into()
+}
+
+/// A query parameter's value: `schema`, or blank (an empty value counts as absent).
+pub fn or_blank(schema: S) -> S {
+    utoipa::openapi::schema::AnyOfBuilder::new()
+        .item(schema)
+        .item(typed(Type::String).pattern(Some(r"^\s*$")))
+        .into()
 }
 
 pub fn number() -> S {
@@ -76,7 +87,9 @@ pub fn words(options: &[&str]) -> S {
 /// A calendar date `YYYY-MM-DD`.
 pub fn date() -> S {
     typed(Type::String)
-        .pattern(Some(r"^[0-9]{4}-[0-9]{2}-[0-9]{2}$"))
+        .pattern(Some(
+            r"^\s*[0-9]{4}-(0[1-9]|1[0-2])-(0[1-9]|[12][0-9]|3[01])\s*$",
+        ))
         .into()
 }
 

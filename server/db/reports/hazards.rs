@@ -36,7 +36,8 @@ pub struct PressureHazard {
     pub site_name: Option<String>,
     pub cylinder_id: i64,
     pub cylinder_function: Option<String>,
-    /// `seal_bypass` or `rod_side_intensification`.
+    /// `seal_bypass`, `rod_side_intensification` (the rod end, or the cylinder, above its
+    /// rating), or `relief_setting` (a cap-line rating below the relief setting itself).
     pub scenario: &'static str,
     /// `cylinder`, or the hose's label (`H12 (cap port, SAE 100R2AT)`).
     pub component: String,
@@ -175,14 +176,15 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
         .iter()
         .filter(|k| k.status == Status::Exceeds)
         .filter(|k| k.scenario == SEAL_BYPASS || k.scenario == ROD_SIDE_INTENSIFICATION)
-        .map(|k| PressureHazard {
+        .map(|k| (k, relabel(&input, k.scenario, &k.component)))
+        .map(|(k, scenario)| PressureHazard {
             machine_id: c.machine_id,
             unit_number: c.unit_number.clone(),
             site_id: c.site_id,
             site_name: c.site_name.clone(),
             cylinder_id: c.id,
             cylinder_function: c.function.clone(),
-            scenario: k.scenario,
+            scenario,
             component: k.component.clone(),
             hose_id: hoses
                 .iter()
@@ -192,6 +194,32 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
             rating_pa: k.rating,
         })
         .collect()
+}
+
+/// In the rod-side scenario the cap end stands at the relief setting itself; a cap-line
+/// component over its rating there is named [`RELIEF_SETTING`], not rod-side intensification.
+fn relabel(input: &CylinderInput, scenario: &'static str, component: &str) -> &'static str {
+    let cap_line = input
+        .ratings
+        .iter()
+        .any(|r| r.component == component && r.exposure == Exposure::Cap);
+    if scenario == ROD_SIDE_INTENSIFICATION && cap_line {
+        RELIEF_SETTING
+    } else {
+        scenario
+    }
+}
+
+/// A cap-line rating below the machine's relief setting (seen in the rod-side scenario).
+pub const RELIEF_SETTING: &str = "relief_setting";
+
+/// A hazard's scenario in words, for pages and CSV.
+pub fn scenario_words(scenario: &str) -> &'static str {
+    if scenario == RELIEF_SETTING {
+        "the relief setting on the cap end"
+    } else {
+        analysis::scenario_words(scenario)
+    }
 }
 
 /// A drift test on a cylinder's trend.

@@ -127,11 +127,7 @@ pub fn build(
     let to_display = |si: f64| quantity::show(si, Dimension::Length, units).value;
     let values: Vec<f64> = samples.iter().map(|s| to_display(s.value)).collect();
     let lim = limit.map(to_display);
-    let hi = values
-        .iter()
-        .copied()
-        .chain(lim)
-        .fold(0.0_f64, f64::max);
+    let hi = values.iter().copied().chain(lim).fold(0.0_f64, f64::max);
     let lo = values.iter().copied().fold(0.0_f64, f64::min);
     let step = nice_step(((hi - lo) * 1.15).max(1e-9) / 5.0);
     let y_lo = (lo / step).floor() * step;
@@ -156,7 +152,15 @@ pub fn build(
             verdict: s.verdict.clone(),
             x0: n(x - 5.0),
             y0: n(y - 5.0),
-            path: format!("M{} {}L{} {}L{} {}Z", n(x), n(y - 6.0), n(x + 6.0), n(y + 5.0), n(x - 6.0), n(y + 5.0)),
+            path: format!(
+                "M{} {}L{} {}L{} {}Z",
+                n(x),
+                n(y - 6.0),
+                n(x + 6.0),
+                n(y + 5.0),
+                n(x - 6.0),
+                n(y + 5.0)
+            ),
         });
     }
     let unit = quantity::display_unit(Dimension::Length, units);
@@ -186,15 +190,17 @@ pub fn build(
     });
     let mut times: Vec<f64> = samples.iter().map(|s| s.at).collect();
     times.sort_by(f64::total_cmp);
-    let trend = projection.and_then(|p| p.line.map(|line| (line, p.used))).map(|(line, used)| {
-        let start = times[times.len().saturating_sub(used.max(1))];
-        Segment {
-            x1: n(px(start)),
-            y1: n(py(to_display(line.value_at(start)))),
-            x2: n(px(x_max)),
-            y2: n(py(to_display(line.value_at(x_max)))),
-        }
-    });
+    let trend = projection
+        .and_then(|p| p.line.map(|line| (line, p.used)))
+        .map(|(line, used)| {
+            let start = times[times.len().saturating_sub(used.max(1))];
+            Segment {
+                x1: n(px(start)),
+                y1: n(py(to_display(line.value_at(start)))),
+                x2: n(px(x_max)),
+                y2: n(py(to_display(line.value_at(x_max)))),
+            }
+        });
     Some(Chart {
         width: n(WIDTH),
         height: n(HEIGHT),

@@ -62,7 +62,10 @@ pub async fn show(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<St
         id: c.id,
         machine_id: c.machine_id,
         unit_number: c.unit_number.clone(),
-        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        function: c
+            .function
+            .clone()
+            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
         size: size_text(&c, units),
         direction: direction_words(&c.load_direction),
         load: q(c.max_load_n, Dimension::Force, units),

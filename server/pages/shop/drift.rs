@@ -2,7 +2,9 @@
 //! stopwatch, the analysis on the spot. The form posts to the same reader as the API
 //! (`api::drift_tests::prepare`), so both refuse the same things with the same words.
 
-use super::form::{self, Field, Fields, in_unit, new_client_token, now_local_input, timestamp_input};
+use super::form::{
+    self, Field, Fields, in_unit, new_client_token, now_local_input, timestamp_input,
+};
 use super::words::{ProcedureView, procedure_view};
 use super::{load_cylinder, redirect_to};
 use crate::api::drift_tests::{prepare, store};
@@ -114,13 +116,48 @@ fn first_values(ctx: &PageCtx, c: &Cylinder, amending: Option<&DriftTest>) -> Va
     put(&mut v, "drift", t.drift_m, D::Length);
     put(&mut v, "start_position", t.start_position_m, D::Length);
     put(&mut v, "end_position", t.end_position_m, D::Length);
-    put(&mut v, "oil_temperature_start", Some(t.oil_temperature_start_k), D::Temperature);
-    put(&mut v, "oil_temperature_end", Some(t.oil_temperature_end_k), D::Temperature);
-    put(&mut v, "ambient_temperature", t.ambient_temperature_k, D::Temperature);
-    put(&mut v, "cap_pressure_start", t.cap_pressure_start_pa, D::Pressure);
-    put(&mut v, "cap_pressure_end", t.cap_pressure_end_pa, D::Pressure);
-    put(&mut v, "rod_pressure_start", t.rod_pressure_start_pa, D::Pressure);
-    put(&mut v, "rod_pressure_end", t.rod_pressure_end_pa, D::Pressure);
+    put(
+        &mut v,
+        "oil_temperature_start",
+        Some(t.oil_temperature_start_k),
+        D::Temperature,
+    );
+    put(
+        &mut v,
+        "oil_temperature_end",
+        Some(t.oil_temperature_end_k),
+        D::Temperature,
+    );
+    put(
+        &mut v,
+        "ambient_temperature",
+        t.ambient_temperature_k,
+        D::Temperature,
+    );
+    put(
+        &mut v,
+        "cap_pressure_start",
+        t.cap_pressure_start_pa,
+        D::Pressure,
+    );
+    put(
+        &mut v,
+        "cap_pressure_end",
+        t.cap_pressure_end_pa,
+        D::Pressure,
+    );
+    put(
+        &mut v,
+        "rod_pressure_start",
+        t.rod_pressure_start_pa,
+        D::Pressure,
+    );
+    put(
+        &mut v,
+        "rod_pressure_end",
+        t.rod_pressure_end_pa,
+        D::Pressure,
+    );
     if t.procedure_id.is_none() {
         put(&mut v, "limit_distance", t.limit_distance_m, D::Length);
         put(&mut v, "limit_per", t.limit_period_s, D::Time);
@@ -144,12 +181,14 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dri
     let cyl = &c.cylinder;
     let units = units_of(cyl);
     let mut who = Fields::new(values, errors, units);
-    who.text("technician", "Technician (signs the record)").required = true;
+    who.text("technician", "Technician (signs the record)")
+        .required = true;
     who.datetime("tested_at", "Time of test (UTC)").hint =
         "Leave as it is for a test done now.".into();
     let mut movement = Fields::new(values, errors, units);
-    movement.quantity("drift", "Drift in the load's direction", D::Length).hint =
-        "The movement measured, or fill start and end positions instead.".into();
+    movement
+        .quantity("drift", "Drift in the load's direction", D::Length)
+        .hint = "The movement measured, or fill start and end positions instead.".into();
     movement.quantity("start_position", "Start position (extension)", D::Length);
     movement.quantity("end_position", "End position (extension)", D::Length);
     let duration = movement.quantity("duration", "Duration of the hold", D::Time);
@@ -158,25 +197,44 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dri
     duration.hint = "Type the time, or use the timer.".into();
     let mut temperatures = Fields::new(values, errors, units);
     temperatures
-        .quantity("oil_temperature_start", "Oil temperature at start", D::Temperature)
+        .quantity(
+            "oil_temperature_start",
+            "Oil temperature at start",
+            D::Temperature,
+        )
         .required = true;
     temperatures
-        .quantity("oil_temperature_end", "Oil temperature at end", D::Temperature)
+        .quantity(
+            "oil_temperature_end",
+            "Oil temperature at end",
+            D::Temperature,
+        )
         .required = true;
     temperatures.quantity("ambient_temperature", "Ambient temperature", D::Temperature);
     let mut pressures = Fields::new(values, errors, units);
-    pressures.quantity("cap_pressure_start", "Cap-end pressure at start", D::Pressure);
+    pressures.quantity(
+        "cap_pressure_start",
+        "Cap-end pressure at start",
+        D::Pressure,
+    );
     pressures.quantity("cap_pressure_end", "Cap-end pressure at end", D::Pressure);
-    pressures.quantity("rod_pressure_start", "Rod-end pressure at start", D::Pressure);
+    pressures.quantity(
+        "rod_pressure_start",
+        "Rod-end pressure at start",
+        D::Pressure,
+    );
     pressures.quantity("rod_pressure_end", "Rod-end pressure at end", D::Pressure);
     let mut load = Fields::new(values, errors, units);
-    load.quantity("load", "Load held in this test", D::Force).hint =
-        "Leave empty to use the cylinder's recorded load.".into();
+    load.quantity("load", "Load held in this test", D::Force)
+        .hint = "Leave empty to use the cylinder's recorded load.".into();
     load.select(
         "load_direction",
         "The load",
         vec![
-            (String::new(), format!("as recorded: {}", direction_words(&cyl.load_direction))),
+            (
+                String::new(),
+                format!("as recorded: {}", direction_words(&cyl.load_direction)),
+            ),
             ("retract".into(), direction_words("retract").into()),
             ("extend".into(), direction_words("extend").into()),
         ],
@@ -198,7 +256,10 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dri
         cylinder_id: cyl.id,
         machine_id: cyl.machine_id,
         unit_number: cyl.unit_number.clone(),
-        function: cyl.function.clone().unwrap_or_else(|| format!("Cylinder {}", cyl.id)),
+        function: cyl
+            .function
+            .clone()
+            .unwrap_or_else(|| format!("Cylinder {}", cyl.id)),
         size: size_text(cyl, units),
         direction: direction_words(&cyl.load_direction),
         recorded_load: q(cyl.max_load_n, D::Force, units),
@@ -258,7 +319,8 @@ async fn context(
 }
 
 fn id_of(text: Option<&str>) -> Option<i64> {
-    text.and_then(|t| t.trim().parse::<i64>().ok()).filter(|n| *n > 0)
+    text.and_then(|t| t.trim().parse::<i64>().ok())
+        .filter(|n| *n > 0)
 }
 
 /// `GET /shop/cylinders/{id}/drift-test`.
@@ -282,8 +344,14 @@ pub async fn show_form(
         Ok(c) => c,
         Err(page) => return page,
     };
-    if amending.as_ref().is_some_and(|t| t.cylinder_id != c.cylinder.id) {
-        return page_error(AppError::not_found(format!("drift test {} of this cylinder", amends.unwrap_or(0))));
+    if amending
+        .as_ref()
+        .is_some_and(|t| t.cylinder_id != c.cylinder.id)
+    {
+        return page_error(AppError::not_found(format!(
+            "drift test {} of this cylinder",
+            amends.unwrap_or(0)
+        )));
     }
     let values = first_values(&ctx, &c.cylinder, amending.as_ref());
     page(ctx, &c, &values, &FieldErrors::default()).into_response()
@@ -299,7 +367,11 @@ pub fn body_of(values: &Values) -> (Map<String, Value>, Vec<AppError>) {
                 Ok(n) => {
                     map.insert(name.into(), Value::from(n));
                 }
-                Err(_) => problems.push(AppError::field(name, "invalid", "send the form from its page again")),
+                Err(_) => problems.push(AppError::field(
+                    name,
+                    "invalid",
+                    "send the form from its page again",
+                )),
             }
         }
     }
@@ -309,8 +381,16 @@ pub fn body_of(values: &Values) -> (Map<String, Value>, Vec<AppError>) {
         (Some(d), Some(p)) => {
             map.insert("limit".into(), serde_json::json!({"distance": d, "per": p}));
         }
-        (Some(_), None) => problems.push(AppError::field("limit_per", "required", "give the period the allowed drift is for")),
-        (None, Some(_)) => problems.push(AppError::field("limit_distance", "required", "give the allowed drift for this period")),
+        (Some(_), None) => problems.push(AppError::field(
+            "limit_per",
+            "required",
+            "give the period the allowed drift is for",
+        )),
+        (None, Some(_)) => problems.push(AppError::field(
+            "limit_distance",
+            "required",
+            "give the allowed drift for this period",
+        )),
         (None, None) => {}
     }
     (map, problems)
@@ -319,10 +399,18 @@ pub fn body_of(values: &Values) -> (Map<String, Value>, Vec<AppError>) {
 /// Names the form's inputs in errors about the API's nested fields (`limit.per`).
 pub fn form_field(error: AppError) -> AppError {
     match error {
-        AppError::Invalid { status, code, field, message } => AppError::Invalid {
+        AppError::Invalid {
             status,
             code,
-            field: field.map(|f| f.replace("limit.distance", "limit_distance").replace("limit.per", "limit_per")),
+            field,
+            message,
+        } => AppError::Invalid {
+            status,
+            code,
+            field: field.map(|f| {
+                f.replace("limit.distance", "limit_distance")
+                    .replace("limit.per", "limit_per")
+            }),
             message,
         },
         other => other,
@@ -354,7 +442,10 @@ pub async fn submit(
         Err(found) => Err(found),
     };
     match outcome {
-        Ok(stored) => redirect_to(&format!("/shop/drift-tests/{}", stored.record().id), !stored.is_new()),
+        Ok(stored) => redirect_to(
+            &format!("/shop/drift-tests/{}", stored.record().id),
+            !stored.is_new(),
+        ),
         Err(found) => {
             problems.extend(found);
             let problems: Vec<AppError> = problems.into_iter().map(form_field).collect();
@@ -362,7 +453,11 @@ pub async fn submit(
                 Ok(errors) => errors,
                 Err(page) => return *page,
             };
-            (StatusCode::UNPROCESSABLE_ENTITY, page(ctx, &c, &values, &errors)).into_response()
+            (
+                StatusCode::UNPROCESSABLE_ENTITY,
+                page(ctx, &c, &values, &errors),
+            )
+                .into_response()
         }
     }
 }

@@ -155,7 +155,10 @@ pub async fn machine(
         let last = tests.iter().rev().find(|t| t.in_force());
         tiles.push(CylinderTile {
             id: c.id,
-            function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+            function: c
+                .function
+                .clone()
+                .unwrap_or_else(|| format!("Cylinder {}", c.id)),
             size: size_text(c, units),
             last_verdict: last.map(|t| t.verdict.clone()).unwrap_or_default(),
             last_diagnosis: last.map(|t| t.diagnosis.clone()).unwrap_or_default(),
@@ -191,7 +194,10 @@ pub fn inspection_line(i: &inspections::Inspection) -> InspectionLine {
         id: i.id,
         kind: i.kind.clone(),
         performed_on: i.performed_on.clone(),
-        hour_meter: i.hour_meter_h.map(|h| format!("{h} h")).unwrap_or_else(|| "—".into()),
+        hour_meter: i
+            .hour_meter_h
+            .map(|h| format!("{h} h"))
+            .unwrap_or_else(|| "—".into()),
         inspector: i.inspector.clone(),
         result: i.result.clone(),
         amended_by: i.amended_by_id,

@@ -178,7 +178,11 @@ impl<'a> Fields<'a> {
 pub fn to_json(values: &Values, quantities: &[&str], texts: &[&str]) -> Map<String, Value> {
     let mut map = Map::new();
     for name in quantities {
-        let Some(text) = values.get(*name).map(|t| t.trim()).filter(|t| !t.is_empty()) else {
+        let Some(text) = values
+            .get(*name)
+            .map(|t| t.trim())
+            .filter(|t| !t.is_empty())
+        else {
             continue;
         };
         let unit = values
@@ -192,7 +196,11 @@ pub fn to_json(values: &Values, quantities: &[&str], texts: &[&str]) -> Map<Stri
         map.insert((*name).to_string(), Value::String(value));
     }
     for name in texts {
-        if let Some(text) = values.get(*name).map(|t| t.trim()).filter(|t| !t.is_empty()) {
+        if let Some(text) = values
+            .get(*name)
+            .map(|t| t.trim())
+            .filter(|t| !t.is_empty())
+        {
             map.insert((*name).to_string(), Value::String(text.to_string()));
         }
     }

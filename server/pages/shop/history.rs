@@ -168,7 +168,9 @@ fn row(t: &DriftTest, units: UnitSystem) -> Row {
         scaled_drift: format!("{} per {per}", length(t.scaled_drift_m)),
         leak_drift: format!("{} per {per}", length(t.scaled_leak_drift_m)),
         limit: match (t.limit_distance_m, t.limit_period_s) {
-            (Some(d), Some(p)) => format!("{} per {}", length(d), q(Some(p), Dimension::Time, units)),
+            (Some(d), Some(p)) => {
+                format!("{} per {}", length(d), q(Some(p), Dimension::Time, units))
+            }
             _ => "—".into(),
         },
         verdict: t.verdict.clone(),
@@ -195,7 +197,12 @@ fn decay_row(t: &DecayTest, units: UnitSystem) -> DecayRow {
 }
 
 /// Builds the panel from stored tests (pure; [`history_panel`] loads them).
-pub fn panel(cylinder_id: i64, tests: &[DriftTest], decays: &[DecayTest], units: UnitSystem) -> HistoryPanel {
+pub fn panel(
+    cylinder_id: i64,
+    tests: &[DriftTest],
+    decays: &[DecayTest],
+    units: UnitSystem,
+) -> HistoryPanel {
     let reference = reference(tests);
     let projection = projection_of(tests);
     let chart = reference.and_then(|(limit, period)| {
@@ -242,7 +249,11 @@ pub fn panel(cylinder_id: i64, tests: &[DriftTest], decays: &[DecayTest], units:
 }
 
 /// The history panel of a cylinder, for any page that shows the cylinder.
-pub async fn history_panel(db: &Db, cylinder_id: i64, units: UnitSystem) -> Result<HistoryPanel, AppError> {
+pub async fn history_panel(
+    db: &Db,
+    cylinder_id: i64,
+    units: UnitSystem,
+) -> Result<HistoryPanel, AppError> {
     let tests = drift_tests::of_cylinder(db, cylinder_id).await?;
     let decays = decay_tests::of_cylinder(db, cylinder_id).await?;
     Ok(panel(cylinder_id, &tests, &decays, units))

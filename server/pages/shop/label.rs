@@ -51,7 +51,12 @@ pub fn base_url(headers: &HeaderMap) -> String {
 
 fn sizes(bore: f64, rod: f64, stroke: f64, units: UnitSystem) -> Vec<String> {
     let l = |si: f64| q(Some(si), Dimension::Length, units);
-    vec![format!("Bore {} · rod {} · stroke {}", l(bore), l(rod), l(stroke))]
+    vec![format!(
+        "Bore {} · rod {} · stroke {}",
+        l(bore),
+        l(rod),
+        l(stroke)
+    )]
 }
 
 /// `GET /machines/{id}/label`.
@@ -110,7 +115,10 @@ pub async fn cylinder(
     LabelPage {
         ctx,
         unit_number: c.unit_number.clone(),
-        heading: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        heading: c
+            .function
+            .clone()
+            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
         lines,
         qr: qr::encode(&address),
         address,

@@ -115,13 +115,18 @@ pub async fn drift_test(
         ],
     );
     figs.extend(limit_text(&a, "distance"));
-    let opt = |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+    let opt =
+        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
     let readings: Vec<(String, String)> = [
         opt("Drift", t.drift_m, D::Length),
         opt("Start position", t.start_position_m, D::Length),
         opt("End position", t.end_position_m, D::Length),
         opt("Duration", Some(t.duration_s), D::Time),
-        opt("Oil at start", Some(t.oil_temperature_start_k), D::Temperature),
+        opt(
+            "Oil at start",
+            Some(t.oil_temperature_start_k),
+            D::Temperature,
+        ),
         opt("Oil at end", Some(t.oil_temperature_end_k), D::Temperature),
         opt("Ambient", t.ambient_temperature_k, D::Temperature),
         opt("Cap end at start", t.cap_pressure_start_pa, D::Pressure),
@@ -140,7 +145,10 @@ pub async fn drift_test(
         cylinder_id: c.id,
         machine_id: c.machine_id,
         unit_number: c.unit_number.clone(),
-        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        function: c
+            .function
+            .clone()
+            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
         size: size_text(&c, units),
         verdict_words: verdict_words(&t.verdict),
         verdict: t.verdict.clone(),
@@ -201,15 +209,23 @@ pub async fn decay_test(
         ],
     );
     figs.extend(limit_text(&a, "pressure"));
-    let p = |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+    let p =
+        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
     let readings: Vec<(String, String)> = [
-        Some(("Pressurised end".to_string(), format!("{} end", t.pressurised_end))),
+        Some((
+            "Pressurised end".to_string(),
+            format!("{} end", t.pressurised_end),
+        )),
         p("Duration", Some(t.duration_s), D::Time),
         p("Pressure at start", Some(t.pressure_start_pa), D::Pressure),
         p("Pressure at end", Some(t.pressure_end_pa), D::Pressure),
         p("Other end at start", t.other_pressure_start_pa, D::Pressure),
         p("Other end at end", t.other_pressure_end_pa, D::Pressure),
-        p("Oil at start", Some(t.oil_temperature_start_k), D::Temperature),
+        p(
+            "Oil at start",
+            Some(t.oil_temperature_start_k),
+            D::Temperature,
+        ),
         p("Oil at end", Some(t.oil_temperature_end_k), D::Temperature),
         p("Ambient", t.ambient_temperature_k, D::Temperature),
     ]
@@ -223,7 +239,10 @@ pub async fn decay_test(
         cylinder_id: c.id,
         machine_id: c.machine_id,
         unit_number: c.unit_number.clone(),
-        function: c.function.clone().unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        function: c
+            .function
+            .clone()
+            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
         size: size_text(&c, units),
         verdict_words: verdict_words(&t.verdict),
         verdict: t.verdict.clone(),

@@ -22,7 +22,11 @@ pub fn unit_words(unit: &str) -> String {
 /// The texts of a list in a stored analysis.
 pub fn texts(v: &Value) -> Vec<String> {
     v.as_array()
-        .map(|a| a.iter().filter_map(|t| t.as_str().map(str::to_string)).collect())
+        .map(|a| {
+            a.iter()
+                .filter_map(|t| t.as_str().map(str::to_string))
+                .collect()
+        })
         .unwrap_or_default()
 }
 
@@ -90,7 +94,11 @@ pub fn procedure_view(p: &Procedure, units: UnitSystem, selected: bool) -> Proce
         Some(_) => format!(
             "{} in {}",
             amount(&p.kind, p.limit_distance_m, p.limit_pressure_drop_pa, units),
-            q(Some(p.limit_period_s.unwrap_or(p.duration_s)), Dimension::Time, units)
+            q(
+                Some(p.limit_period_s.unwrap_or(p.duration_s)),
+                Dimension::Time,
+                units
+            )
         ),
         None if p.limits.is_empty() => "not given".into(),
         None => "by oil temperature (below)".into(),

@@ -1,185 +1,56 @@
-//! The invented scale fleet: machine kinds with their cylinders, sites, people, and one
-//! machine's registry rows (machine, cylinders, hose assemblies). Every figure here is our own
-//! invention for load testing, chosen to look like a rental yard's fleet; none is a maker's.
+//! The invented scale fleet's sites and people, and one machine's registry rows: its
+//! cylinders and hose assemblies. Every figure here is our own invention for load testing.
 
 use super::batch::Val;
+use super::kinds::CylinderPlan;
 use super::rng::Rng;
 use time::{Date, Duration};
 
-/// One cylinder position on a kind of machine.
-pub struct CylinderPlan {
-    pub function: &'static str,
-    /// Bore range, mm.
-    pub bore_mm: (f64, f64),
-    /// Stroke range, m.
-    pub stroke_m: (f64, f64),
-    /// `retract` (the load pushes the rod in) or `extend`.
-    pub direction: &'static str,
-    /// Share of machines of the kind that have this cylinder.
-    pub present: f64,
-}
-
-/// A kind of machine.
-pub struct KindPlan {
-    pub kind: &'static str,
-    pub code: &'static str,
-    pub relief_bar: f64,
-    /// Hours run per year, range.
-    pub hours_per_year: (f64, f64),
-    pub periodic_hours: Option<f64>,
-    pub frequent_days: i64,
-    /// Drift allowed by the kind's hold-test procedure, mm per 10 minutes (invented).
-    pub limit_mm: f64,
-    pub cylinders: &'static [CylinderPlan],
-}
-
-const fn cyl(
-    function: &'static str,
-    bore_mm: (f64, f64),
-    stroke_m: (f64, f64),
-    direction: &'static str,
-    present: f64,
-) -> CylinderPlan {
-    CylinderPlan {
-        function,
-        bore_mm,
-        stroke_m,
-        direction,
-        present,
-    }
-}
-
-pub const KINDS: [KindPlan; 8] = [
-    KindPlan {
-        kind: "excavator",
-        code: "EX",
-        relief_bar: 350.0,
-        hours_per_year: (900.0, 1700.0),
-        periodic_hours: Some(1000.0),
-        frequent_days: 90,
-        limit_mm: 5.0,
-        cylinders: &[
-            cyl("boom lift, left", (110.0, 160.0), (1.0, 1.6), "retract", 1.0),
-            cyl("boom lift, right", (110.0, 160.0), (1.0, 1.6), "retract", 1.0),
-            cyl("arm", (100.0, 150.0), (1.2, 1.8), "extend", 1.0),
-            cyl("bucket", (90.0, 130.0), (0.9, 1.2), "extend", 1.0),
-        ],
-    },
-    KindPlan {
-        kind: "wheel loader",
-        code: "WL",
-        relief_bar: 280.0,
-        hours_per_year: (800.0, 1500.0),
-        periodic_hours: Some(1000.0),
-        frequent_days: 90,
-        limit_mm: 6.0,
-        cylinders: &[
-            cyl("lift arm, left", (125.0, 160.0), (0.7, 0.9), "retract", 1.0),
-            cyl("lift arm, right", (125.0, 160.0), (0.7, 0.9), "retract", 1.0),
-            cyl("bucket tilt", (140.0, 180.0), (0.5, 0.7), "extend", 1.0),
-            cyl("steering", (63.0, 80.0), (0.3, 0.45), "retract", 0.8),
-        ],
-    },
-    KindPlan {
-        kind: "telehandler",
-        code: "TH",
-        relief_bar: 270.0,
-        hours_per_year: (500.0, 1100.0),
-        periodic_hours: Some(500.0),
-        frequent_days: 90,
-        limit_mm: 4.0,
-        cylinders: &[
-            cyl("boom lift", (110.0, 140.0), (1.0, 1.4), "retract", 1.0),
-            cyl("boom extension", (63.0, 90.0), (2.5, 4.0), "extend", 1.0),
-            cyl("carriage tilt", (80.0, 100.0), (0.4, 0.6), "extend", 1.0),
-            cyl("frame levelling", (63.0, 80.0), (0.2, 0.3), "retract", 0.7),
-        ],
-    },
-    KindPlan {
-        kind: "scissor lift",
-        code: "SL",
-        relief_bar: 200.0,
-        hours_per_year: (150.0, 400.0),
-        periodic_hours: None,
-        frequent_days: 90,
-        limit_mm: 3.0,
-        cylinders: &[
-            cyl("platform lift, lower", (80.0, 110.0), (1.0, 1.4), "retract", 1.0),
-            cyl("platform lift, upper", (80.0, 110.0), (1.0, 1.4), "retract", 0.6),
-            cyl("steering", (40.0, 50.0), (0.1, 0.15), "retract", 1.0),
-        ],
-    },
-    KindPlan {
-        kind: "boom lift",
-        code: "BL",
-        relief_bar: 230.0,
-        hours_per_year: (200.0, 500.0),
-        periodic_hours: None,
-        frequent_days: 90,
-        limit_mm: 3.0,
-        cylinders: &[
-            cyl("main boom lift", (110.0, 150.0), (1.0, 1.5), "retract", 1.0),
-            cyl("main boom extension", (63.0, 90.0), (3.0, 5.0), "extend", 1.0),
-            cyl("jib lift", (63.0, 80.0), (0.4, 0.6), "retract", 1.0),
-            cyl("platform levelling", (50.0, 63.0), (0.2, 0.3), "retract", 1.0),
-            cyl("steering", (40.0, 50.0), (0.1, 0.15), "retract", 1.0),
-        ],
-    },
-    KindPlan {
-        kind: "skid steer",
-        code: "SK",
-        relief_bar: 220.0,
-        hours_per_year: (400.0, 900.0),
-        periodic_hours: Some(500.0),
-        frequent_days: 90,
-        limit_mm: 6.0,
-        cylinders: &[
-            cyl("lift arm, left", (63.0, 80.0), (0.7, 0.9), "retract", 1.0),
-            cyl("lift arm, right", (63.0, 80.0), (0.7, 0.9), "retract", 1.0),
-            cyl("tilt, left", (63.0, 80.0), (0.35, 0.5), "extend", 1.0),
-            cyl("tilt, right", (63.0, 80.0), (0.35, 0.5), "extend", 1.0),
-        ],
-    },
-    KindPlan {
-        kind: "tipper trailer",
-        code: "TT",
-        relief_bar: 180.0,
-        hours_per_year: (100.0, 300.0),
-        periodic_hours: None,
-        frequent_days: 90,
-        limit_mm: 8.0,
-        cylinders: &[cyl("body tip", (110.0, 160.0), (2.0, 3.5), "retract", 1.0)],
-    },
-    KindPlan {
-        kind: "loader crane",
-        code: "LC",
-        relief_bar: 320.0,
-        hours_per_year: (300.0, 800.0),
-        periodic_hours: None,
-        frequent_days: 30,
-        limit_mm: 3.0,
-        cylinders: &[
-            cyl("main boom", (140.0, 200.0), (0.8, 1.2), "retract", 1.0),
-            cyl("outer boom", (110.0, 160.0), (0.8, 1.2), "extend", 1.0),
-            cyl("extension", (63.0, 90.0), (1.5, 3.0), "extend", 1.0),
-            cyl("slew", (80.0, 100.0), (0.3, 0.5), "retract", 0.5),
-            cyl("stabiliser, left", (80.0, 110.0), (0.4, 0.6), "retract", 1.0),
-            cyl("stabiliser, right", (80.0, 110.0), (0.4, 0.6), "retract", 1.0),
-        ],
-    },
-];
-
 /// Invented place names and yard words for sites (24 x 17 = 408 distinct names).
 const PLACES: [&str; 24] = [
-    "Alderby", "Brackwell", "Cinderford Vale", "Dunmere", "Elsworth", "Fallowfield", "Garthby",
-    "Hollinsend", "Ivybank", "Jessamy", "Kettlewick", "Larchmoor", "Millbrook", "Netherlow",
-    "Ormsley", "Pennyrigg", "Quarrington", "Redlynch", "Saltcote", "Thornleigh", "Upwater",
-    "Vennford", "Wrenhallow", "Yarrowby",
+    "Alderby",
+    "Brackwell",
+    "Cinderford Vale",
+    "Dunmere",
+    "Elsworth",
+    "Fallowfield",
+    "Garthby",
+    "Hollinsend",
+    "Ivybank",
+    "Jessamy",
+    "Kettlewick",
+    "Larchmoor",
+    "Millbrook",
+    "Netherlow",
+    "Ormsley",
+    "Pennyrigg",
+    "Quarrington",
+    "Redlynch",
+    "Saltcote",
+    "Thornleigh",
+    "Upwater",
+    "Vennford",
+    "Wrenhallow",
+    "Yarrowby",
 ];
 const YARDS: [&str; 17] = [
-    "Yard", "Depot", "Works", "Crossing", "Sidings", "Wharf", "Gate", "Lane Yard", "North Yard",
-    "South Yard", "Quarry Depot", "Road Depot", "Park", "Field Yard", "Bridge Depot",
-    "Mill Yard", "Junction",
+    "Yard",
+    "Depot",
+    "Works",
+    "Crossing",
+    "Sidings",
+    "Wharf",
+    "Gate",
+    "Lane Yard",
+    "North Yard",
+    "South Yard",
+    "Quarry Depot",
+    "Road Depot",
+    "Park",
+    "Field Yard",
+    "Bridge Depot",
+    "Mill Yard",
+    "Junction",
 ];
 const FIRST: [&str; 20] = [
     "Ada", "Bram", "Cleo", "Dev", "Esme", "Finn", "Greta", "Hal", "Ines", "Jory", "Kit", "Lena",
@@ -216,7 +87,11 @@ pub fn sites(seed: u64, count: usize, first_id: i64) -> Vec<Site> {
     (0..count)
         .map(|i| {
             let mut rng = Rng::for_item(seed, 10, i as u64);
-            let name = format!("{} {}", PLACES[i % PLACES.len()], YARDS[i / PLACES.len() % YARDS.len()]);
+            let name = format!(
+                "{} {}",
+                PLACES[i % PLACES.len()],
+                YARDS[i / PLACES.len() % YARDS.len()]
+            );
             let units = if rng.chance(0.2) { "us" } else { "metric" };
             let people = (0..8)
                 .map(|_| format!("{} {}", rng.pick(&FIRST), rng.pick(&LAST)))
@@ -245,6 +120,9 @@ pub fn round_to(x: f64, step: f64) -> f64 {
     (x / step).round() * step
 }
 
+/// A rated hose on a cylinder port: its label, the port and its working pressure, Pa.
+pub type RatedHose = (String, &'static str, f64);
+
 /// A generated cylinder, as the history needs it.
 pub struct CylinderSim {
     pub id: i64,
@@ -259,7 +137,7 @@ pub struct CylinderSim {
     pub end_condition: Option<&'static str>,
     pub interval_days: Option<i64>,
     /// Rated hoses on its ports: (label, port, working pressure Pa).
-    pub hoses: Vec<(String, &'static str, f64)>,
+    pub hoses: Vec<RatedHose>,
 }
 
 /// One cylinder of `plan` on machine `machine_id`: its row and what the history needs.
@@ -277,7 +155,11 @@ pub fn cylinder(
     let (bore, rod) = (bore_mm / 1000.0, rod_mm / 1000.0);
     let cap_area = std::f64::consts::PI / 4.0 * bore * bore;
     let annulus = cap_area - std::f64::consts::PI / 4.0 * rod * rod;
-    let held_area = if plan.direction == "retract" { cap_area } else { annulus };
+    let held_area = if plan.direction == "retract" {
+        cap_area
+    } else {
+        annulus
+    };
     let max_load = round_to(rng.range(0.25, 0.6) * relief * held_area, 100.0);
     let rated = (!rng.chance(0.1)).then(|| round_to(relief * rng.range(1.1, 1.5), 10e5));
     let tube_od = rng
@@ -368,7 +250,7 @@ pub fn hose_rows(
     relief: f64,
     registered: Date,
     today: Date,
-) -> (Vec<Vec<Val>>, Option<(String, &'static str, f64)>) {
+) -> (Vec<Vec<Val>>, Option<RatedHose>) {
     let bore = match place {
         HosePlace::Port(c, _) => c.bore,
         HosePlace::Circuit(_) => 0.1,

@@ -1,8 +1,10 @@
 //! One generated machine with everything it owns: its cylinders, hose assemblies, inspections
 //! and drift tests, as rows for the batch writer. Deterministic from the seed and the index.
 
-use super::fleet::{self, HosePlace, KINDS, days, round_to, stamp};
+use super::drift;
+use super::fleet::{self, HosePlace, days, round_to, stamp};
 use super::history::{self, MachineSim, ProcedureSim};
+use super::kinds::KINDS;
 use super::rng::Rng;
 use super::tables::{CYLINDERS, HOSES, MACHINES};
 use super::{Counts, Ids, Rows};
@@ -69,8 +71,15 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
             HosePlace::Circuit(fleet::circuit_name(h - ports))
         };
         let cylinder_index = (h < ports).then_some(h / 2);
-        let (hose_rows, rated) =
-            fleet::hose_rows(&mut rng, &mut ids.hose, id, place, sim.relief, registered, today);
+        let (hose_rows, rated) = fleet::hose_rows(
+            &mut rng,
+            &mut ids.hose,
+            id,
+            place,
+            sim.relief,
+            registered,
+            today,
+        );
         counts.hoses += hose_rows.len() as u64;
         rows.extend(hose_rows.into_iter().map(|r| (HOSES, r)));
         if let (Some(i), Some(rated)) = (cylinder_index, rated) {
@@ -81,7 +90,16 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
     let inspected = history::inspections(&mut rng, &sim, &mut ids.inspection, rows, counts);
     let procedure = &ctx.procedures[kind_index];
     for c in &cylinders {
-        history::drift_tests(&mut rng, &sim, c, procedure, today, &mut ids.drift, rows, counts);
+        drift::drift_tests(
+            &mut rng,
+            &sim,
+            c,
+            procedure,
+            today,
+            &mut ids.drift,
+            rows,
+            counts,
+        );
     }
 
     let (status, reason, since, inspection_id) = match inspected.open_fail {

@@ -18,7 +18,11 @@ impl Rng {
     /// The stream for item `index` of stream `stream` under `seed`.
     pub fn for_item(seed: u64, stream: u64, index: u64) -> Rng {
         let mixed = splitmix64(seed ^ splitmix64(stream.wrapping_mul(31).wrapping_add(index)));
-        Rng(if mixed == 0 { 0x2545_F491_4F6C_DD1D } else { mixed })
+        Rng(if mixed == 0 {
+            0x2545_F491_4F6C_DD1D
+        } else {
+            mixed
+        })
     }
 
     pub fn next_u64(&mut self) -> u64 {

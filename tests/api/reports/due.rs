@@ -319,23 +319,34 @@ async fn a_machine_never_inspected_is_due_from_the_day_it_was_registered() {
     let registered = registered_on(&app, id).await;
     let reg = loadhold::calc::due::parse_day(&registered).unwrap();
     let day = |n: i64| loadhold::calc::due::add_days(reg, n).unwrap().to_string();
-    // Registered on R, every 7 days: due R + 7; overdue from R + 8 (1 day).
-    let late = items(&app, &format!("/api/v1/reports/due?as_of={}", day(8))).await;
+    // Never inspected: due on the registration day R itself (the rule), overdue from
+    // R + 1, whatever the interval.
+    let late = items(&app, &format!("/api/v1/reports/due?as_of={}", day(1))).await;
     assert_eq!(
         unit_kinds(&late),
         vec![pair("HV-110", "frequent_inspection")]
     );
-    assert_eq!(late[0]["due_on"], day(7));
+    assert_eq!(late[0]["due_on"], registered.get(..10).unwrap());
+    assert_eq!(late[0]["basis"], "date");
     assert_eq!(late[0]["overdue"], true);
     assert_eq!(late[0]["days_overdue"], 1);
     assert_eq!(late[0]["last_done_on"], json!(null));
-    // As of R with no window it is not yet due.
-    let early = items(
+    // As of R it is due that day: listed, not yet overdue.
+    let today = items(
         &app,
-        &format!("/api/v1/reports/due?as_of={registered}&within_days=0"),
+        &format!("/api/v1/reports/due?as_of={}&within_days=0", day(0)),
     )
     .await;
-    assert!(early.is_empty(), "{early:?}");
+    assert_eq!(today.len(), 1, "{today:?}");
+    assert_eq!(today[0]["overdue"], false);
+    // The day before R (a back-dated query) nothing is listed within a zero window.
+    let before = items(
+        &app,
+        &format!("/api/v1/reports/due?as_of={}&within_days=0", day(-1)),
+    )
+    .await;
+    assert!(before.is_empty(), "{before:?}");
+    let _ = day(7);
 }
 
 #[tokio::test]

@@ -71,6 +71,7 @@ async fn out_of_service_lists_each_machine_with_why_since_and_the_record() {
 }
 
 pub struct HazardFleet {
+    pub below_relief_hose: i64,
     pub bypass_cylinder: i64,
     pub weak_cap_hose: i64,
     pub rod_side_cylinder: i64,
@@ -138,6 +139,14 @@ pub async fn hazard_fleet(app: &TestApp) -> HazardFleet {
         "working_pressure": "400 bar"}),
     )
     .await;
+    // A cap-line hose rated below the 200 bar relief setting itself.
+    let below_relief_hose = hose(
+        app,
+        hv202,
+        json!({"cylinder_id": rod_side_cylinder, "port": "cap",
+        "working_pressure": "150 bar"}),
+    )
+    .await;
 
     let hv203 = machine(app, json!({"unit_number": "HV-203", "kind": "loader"})).await;
     let expired_hose = hose(app, hv203, json!({"replace_by": "2025-05-01"})).await;
@@ -151,6 +160,7 @@ pub async fn hazard_fleet(app: &TestApp) -> HazardFleet {
     drift_test(app, wearing_cylinder, "2025-02-01T08:00:00Z", 2.0, 5.0).await;
     drift_test(app, wearing_cylinder, "2025-04-01T08:00:00Z", 3.0, 5.0).await;
     HazardFleet {
+        below_relief_hose,
         bypass_cylinder,
         weak_cap_hose,
         rod_side_cylinder,
@@ -183,8 +193,9 @@ async fn hazards_list_pressures_above_ratings_expired_hoses_and_drift_trends() {
         .await;
     assert_eq!(status, StatusCode::OK, "{body}");
     let pressures = body["pressures"].as_array().unwrap();
-    assert_eq!(pressures.len(), 2, "{pressures:?}");
-    // Sorted by pressure over rating: 4,998.6 / 3,000 = 1.67 before 392 / 350 = 1.12.
+    assert_eq!(pressures.len(), 3, "{pressures:?}");
+    // Sorted by pressure over rating: 4,998.6 / 3,000 = 1.67, then 200 / 150 = 1.33, then
+    // 392 / 350 = 1.12.
     let bypass = &pressures[0];
     assert_eq!(bypass["cylinder_id"], h.bypass_cylinder);
     assert_eq!(bypass["hose_id"], h.weak_cap_hose);
@@ -192,7 +203,11 @@ async fn hazards_list_pressures_above_ratings_expired_hoses_and_drift_trends() {
     let p = si(&bypass["pressure"]) / PSI;
     assert!((p - 4998.6).abs() < 0.005 * 5000.0, "bypass {p} psi");
     assert!((si(&bypass["rating"]) / PSI - 3000.0).abs() < 1e-6);
-    let rod = &pressures[1];
+    let relief = &pressures[1];
+    assert_eq!(relief["hose_id"], h.below_relief_hose);
+    assert_eq!(relief["scenario"], "relief_setting");
+    assert!((si(&relief["pressure"]) / BAR - 200.0).abs() < 1e-9);
+    let rod = &pressures[2];
     assert_eq!(rod["cylinder_id"], h.rod_side_cylinder);
     assert_eq!(rod["hose_id"], h.weak_rod_hose);
     assert_eq!(rod["scenario"], "rod_side_intensification");
@@ -246,10 +261,17 @@ async fn hazards_list_pressures_above_ratings_expired_hoses_and_drift_trends() {
     let kinds: Vec<&str> = rows.iter().map(|r| col(&header, r, "hazard")).collect();
     assert_eq!(
         kinds,
-        vec!["pressure", "pressure", "hose", "hose", "drift_trend"]
+        vec![
+            "pressure",
+            "pressure",
+            "pressure",
+            "hose",
+            "hose",
+            "drift_trend"
+        ]
     );
     assert_eq!(
-        col(&header, &rows[4], "cylinder_id"),
+        col(&header, &rows[5], "cylinder_id"),
         h.wearing_cylinder.to_string()
     );
 }
@@ -265,7 +287,7 @@ async fn the_hose_age_list_is_oldest_first_with_ages_as_of_the_day() {
         .collect();
     // Dated hoses oldest first (2018-Q1, 2023-Q2); undated ones after, by id.
     assert_eq!(&order[..2], &[h.old_hose, h.young_hose]);
-    assert_eq!(order.len(), 7, "every hose of the fleet: {list:?}");
+    assert_eq!(order.len(), 8, "every hose of the fleet: {list:?}");
     // [C] 2018-01-01 to 2025-06-01: 7 x 365 + 2 leap days (2020, 2024) + 151 = 2708 days;
     // 2023-04-01 to 2025-06-01: 792 days.
     assert_eq!(list[0]["age_days"], 2708);
@@ -281,7 +303,7 @@ async fn the_hose_age_list_is_oldest_first_with_ages_as_of_the_day() {
 
     let (header, rows) =
         csv_rows(&app, "/api/v1/reports/hose-age?as_of=2025-06-01&format=csv").await;
-    assert_eq!(rows.len(), 7);
+    assert_eq!(rows.len(), 8);
     assert_eq!(col(&header, &rows[0], "hose_id"), h.old_hose.to_string());
     assert_eq!(col(&header, &rows[0], "age_days"), "2708");
 }

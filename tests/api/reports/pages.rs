@@ -1,7 +1,6 @@
 //! The report pages show the same lists, their filters and the time generated.
 
 use super::due::due_fleet;
-use super::fleet::*;
 use super::lists::hazard_fleet;
 use crate::helpers::TestApp;
 use axum::http::StatusCode;
@@ -76,7 +75,8 @@ async fn the_other_report_pages_show_their_lists() {
     let (status, _, hazards) = app.get_page("/reports/hazards?as_of=2025-06-01").await;
     assert_eq!(status, StatusCode::OK);
     assert!(
-        hazards.contains("Pressures above a rating") && hazards.contains("Never feel for leaks")
+        hazards.contains("Pressures above a rating") && hazards.contains("None found"),
+        "this fleet has no pressure hazard"
     );
 
     let (status, _, overview) = app.get_page("/reports").await;
@@ -135,4 +135,36 @@ async fn reports_are_for_managers() {
     let (status, body) = manager.get_json("/api/v1/reports/due").await;
     assert_eq!(status, StatusCode::OK, "{body}");
     assert_eq!(body, serde_json::json!({"items": []}));
+}
+
+#[tokio::test]
+async fn a_manager_sets_the_hose_age_limit_from_the_hose_age_page() {
+    let app = TestApp::session(Role::Manager).await;
+    let (status, _, page) = app.get_page("/reports/hose-age").await;
+    assert_eq!(status, StatusCode::OK);
+    assert!(page.contains("The shop has set no age limit."), "{page}");
+    assert!(
+        page.contains("name=\"csrf\""),
+        "the form carries the anti-forgery token"
+    );
+
+    let (status, headers, _) = app
+        .post_form("/reports/settings", &[("hose_age_limit_years", "8")])
+        .await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+    assert_eq!(headers["location"], "/reports/hose-age");
+    let (_, _, page) = app.get_page("/reports/hose-age").await;
+    assert!(page.contains("The shop's age limit is 8 years."), "{page}");
+
+    let (status, _, page) = app
+        .post_form("/reports/settings", &[("hose_age_limit_years", "0")])
+        .await;
+    assert_eq!(status, StatusCode::UNPROCESSABLE_ENTITY);
+    assert!(page.contains("from 1 to 100"), "{page}");
+    let (status, _, _) = app
+        .post_form("/reports/settings", &[("hose_age_limit_years", "")])
+        .await;
+    assert_eq!(status, StatusCode::SEE_OTHER, "empty clears the limit");
+    let (_, _, page) = app.get_page("/reports/hose-age").await;
+    assert!(page.contains("The shop has set no age limit."));
 }

@@ -1,0 +1,337 @@
+//! Drift tests recorded against a registry cylinder (`/api/v1/cylinders/{id}/drift-tests`),
+//! procedures, amendments, and the wear trend of `calc::trend`. The cylinders and readings
+//! are invented test data; figures are checked against REFERENCES.md where named.
+
+use crate::helpers::{TestApp, assert_field_error};
+use crate::registry_fixtures::machine;
+use axum::http::StatusCode;
+use loadhold::calc::trend::{self, Crossing, Sample};
+use serde_json::{Map, Value, json};
+
+/// A 100 mm bore, 70 mm rod, 800 mm stroke cylinder holding 50 kN that pushes its rod in;
+/// returns (machine id, cylinder id).
+pub async fn loaded_cylinder(app: &TestApp, unit: &str) -> (i64, i64) {
+    let machine_id = machine(app, unit).await;
+    let (status, body) = app
+        .post_json(
+            "/api/v1/cylinders",
+            &json!({
+                "machine_id": machine_id,
+                "function": "boom lift",
+                "bore": "100 mm",
+                "rod": "70 mm",
+                "stroke": "800 mm",
+                "load_direction": "retract",
+                "max_load": "50 kN",
+            }),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "cylinder: {body}");
+    (machine_id, body["id"].as_i64().expect("cylinder id"))
+}
+
+/// Readings of a test: 3 mm in 10 minutes, oil steady at 45 degC, both ports read.
+pub fn readings() -> Value {
+    json!({
+        "duration": "10 min",
+        "drift": "3 mm",
+        "oil_temperature_start": "45 degC",
+        "oil_temperature_end": "45 degC",
+        "cap_pressure_start": "63.7 bar",
+        "cap_pressure_end": "63.5 bar",
+        "rod_pressure_start": "0 bar",
+        "rod_pressure_end": "0 bar",
+        "limit": {"distance": "5 mm", "per": "10 min"},
+    })
+}
+
+fn with(base: Value, extra: Value) -> Value {
+    let mut map: Map<String, Value> = base.as_object().cloned().unwrap_or_default();
+    for (k, v) in extra.as_object().cloned().unwrap_or_default() {
+        map.insert(k, v);
+    }
+    Value::Object(map)
+}
+
+pub fn record(token: &str) -> Value {
+    with(
+        readings(),
+        json!({"technician": "R. Okafor", "tested_at": "2025-03-14T09:30:00Z", "client_token": token}),
+    )
+}
+
+#[tokio::test]
+async fn a_drift_test_is_analysed_exactly_as_the_calculation_api_answers_and_stored() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-101").await;
+    let path = format!("/api/v1/cylinders/{cylinder}/drift-tests");
+    let (status, stored) = app.post_json(&path, &record("t-001")).await;
+    assert_eq!(status, StatusCode::CREATED, "{stored}");
+    assert!(stored["id"].as_i64().is_some());
+    assert_eq!(stored["technician"], "R. Okafor");
+    assert_eq!(stored["tested_at"], "2025-03-14T09:30:00Z");
+    assert!(stored["calc_version"].as_str().is_some_and(|v| !v.is_empty()));
+
+    // The same readings with the cylinder's geometry and load, sent to the calculation API.
+    let calc = with(
+        readings(),
+        json!({"bore": "100 mm", "rod": "70 mm", "stroke": "800 mm",
+               "load": "50 kN", "load_direction": "retract", "units": "metric"}),
+    );
+    let (status, answer) = app.post_json("/api/v1/calc/drift-test", &calc).await;
+    assert_eq!(status, StatusCode::OK, "{answer}");
+    assert_eq!(stored["analysis"], answer, "stored analysis = calc API answer");
+
+    // The stored readings are the request as sent to the core: replayed, the same answer.
+    let (status, replay) = app
+        .post_json("/api/v1/calc/drift-test", &stored["readings"])
+        .await;
+    assert_eq!(status, StatusCode::OK, "{replay}");
+    assert_eq!(replay, stored["analysis"]);
+
+    // Oil steady: no thermal drift, so all 3 mm is leak drift; 3 mm per 10 min against a
+    // 5 mm per 10 min limit passes ([C] from the inputs).
+    assert_eq!(stored["verdict"], "pass");
+    let scaled = stored["analysis"]["scaled_drift"]["si"].as_f64().expect("scaled");
+    assert!((scaled - 0.003).abs() < 1e-9, "{scaled}");
+
+    let (status, list) = app.get_json(&path).await;
+    assert_eq!(status, StatusCode::OK);
+    assert_eq!(list["items"].as_array().map(Vec::len), Some(1));
+    assert_eq!(list["items"][0]["id"], stored["id"]);
+    let (status, one) = app
+        .get_json(&format!("/api/v1/drift-tests/{}", stored["id"]))
+        .await;
+    assert_eq!(status, StatusCode::OK);
+    assert_eq!(one["analysis"], stored["analysis"]);
+}
+
+#[tokio::test]
+async fn a_rising_rod_end_pressure_is_stored_as_a_piston_seal_bypass_with_its_hazard() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-102").await;
+    // Common practice (REFERENCES.md "Trade facts"): a passing piston seal with both ports
+    // blocked lifts the rod end toward the holding end's pressure.
+    let body = with(
+        record("t-bypass"),
+        json!({"drift": "1 mm", "rod_pressure_end": "60 bar", "cap_pressure_end": "120 bar"}),
+    );
+    let (status, stored) = app
+        .post_json(&format!("/api/v1/cylinders/{cylinder}/drift-tests"), &body)
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{stored}");
+    assert_eq!(stored["diagnosis"], "piston_seal_bypass", "{stored}");
+    assert!(
+        stored["analysis"]["hazards"]
+            .as_array()
+            .is_some_and(|h| !h.is_empty()),
+        "a bypass names its hazard: {stored}"
+    );
+}
+
+#[tokio::test]
+async fn a_resubmitted_client_token_is_stored_once() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-103").await;
+    let path = format!("/api/v1/cylinders/{cylinder}/drift-tests");
+    let (first, a) = app.post_json(&path, &record("same-token")).await;
+    let (second, b) = app.post_json(&path, &record("same-token")).await;
+    assert_eq!(first, StatusCode::CREATED, "{a}");
+    assert_eq!(second, StatusCode::OK, "{b}");
+    assert_eq!(a["id"], b["id"]);
+    let rows: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM drift_tests")
+        .fetch_one(&app.db)
+        .await
+        .expect("count");
+    assert_eq!(rows, 1);
+    let audits: i64 =
+        sqlx::query_scalar("SELECT COUNT(*) FROM audit_log WHERE entity = 'drift_test'")
+            .fetch_one(&app.db)
+            .await
+            .expect("count");
+    assert_eq!(audits, 1, "one audit row for one record");
+
+    // The same token on another cylinder is a conflict, not a silent reuse.
+    let (_, other) = loaded_cylinder(&app, "HV-104").await;
+    let (status, body) = app
+        .post_json(
+            &format!("/api/v1/cylinders/{other}/drift-tests"),
+            &record("same-token"),
+        )
+        .await;
+    assert_field_error(status, &body, StatusCode::CONFLICT, "client_token");
+}
+
+#[tokio::test]
+async fn bad_drift_test_input_names_its_field() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-105").await;
+    let (_, other) = loaded_cylinder(&app, "HV-106").await;
+    let path = format!("/api/v1/cylinders/{cylinder}/drift-tests");
+    let (status, procedure) = app
+        .post_json(
+            "/api/v1/procedures",
+            &json!({"name": "other cylinder's", "cylinder_id": other, "duration": "10 min"}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{procedure}");
+    let cases = [
+        (json!({"duration": 600}), "duration"),
+        (json!({"bore": "4 in"}), "bore"),
+        (json!({"technician": null}), "technician"),
+        (json!({"tested_at": "2999-01-01T00:00:00Z"}), "tested_at"),
+        (json!({"tested_at": "last Tuesday"}), "tested_at"),
+        (json!({"oil_temperature_end": "hot"}), "oil_temperature_end"),
+        (json!({"procedure_id": procedure["id"]}), "procedure_id"),
+        (json!({"amends": 999}), "amends"),
+        (json!({"client_token": "has spaces in it"}), "client_token"),
+        (json!({"drift": null}), "drift"),
+        (json!({"load_direction": "sideways"}), "load_direction"),
+    ];
+    for (change, field) in cases {
+        let body = with(record("t-bad"), change);
+        let (status, answer) = app.post_json(&path, &body).await;
+        let expected = StatusCode::UNPROCESSABLE_ENTITY;
+        assert_field_error(status, &answer, expected, field);
+    }
+    let (status, _) = app
+        .post_json("/api/v1/cylinders/9999/drift-tests", &record("t-x"))
+        .await;
+    assert_eq!(status, StatusCode::NOT_FOUND);
+    let rows: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM drift_tests")
+        .fetch_one(&app.db)
+        .await
+        .expect("count");
+    assert_eq!(rows, 0, "nothing stored from bad input");
+}
+
+#[tokio::test]
+async fn a_procedure_sets_the_limit_by_oil_temperature_and_flags_a_test_outside_its_window() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-107").await;
+    let (status, p) = app
+        .post_json(
+            "/api/v1/procedures",
+            &json!({
+                "name": "Boom held level, bucket empty",
+                "cylinder_id": cylinder,
+                "hold_load": "empty bucket",
+                "oil_temperature_min": "40 degC",
+                "oil_temperature_max": "60 degC",
+                "duration": "10 min",
+                "limit": {"distance": "6 mm", "per": "10 min"},
+                "limit_table": [
+                    {"from": "20 degC", "distance": "4 mm", "per": "10 min"},
+                    {"from": "50 degC", "distance": "8 mm", "per": "10 min"},
+                ],
+                "oil_expansion": "0.0007 1/degC",
+            }),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{p}");
+    let mut body = record("t-proc");
+    let map = body.as_object_mut().expect("object");
+    map.remove("limit");
+    map.insert("procedure_id".into(), p["id"].clone());
+    map.insert("oil_temperature_start".into(), json!("30 degC"));
+    map.insert("oil_temperature_end".into(), json!("27 degC"));
+    let (status, stored) = app
+        .post_json(&format!("/api/v1/cylinders/{cylinder}/drift-tests"), &body)
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{stored}");
+    // 30 degC falls in the table's band from 20 degC: 4 mm per 10 min.
+    let limit = stored["analysis"]["limit"]["distance"]["si"].as_f64();
+    assert!(limit.is_some_and(|l| (l - 0.004).abs() < 1e-12), "{stored}");
+    let flags = stored["flags"].as_array().cloned().unwrap_or_default();
+    assert!(flags.contains(&json!("oil_temperature_below_window")), "{flags:?}");
+    assert!(flags.contains(&json!("oil_temperature_changed")), "{flags:?}");
+    assert_eq!(stored["procedure_id"], p["id"]);
+    // The procedure's expansion coefficient went into the request: cooling 3 K explains part
+    // of the drift, so the leak drift is less than the measured 3 mm.
+    let leak = stored["analysis"]["leak_drift"]["si"].as_f64().expect("leak");
+    assert!(leak < 0.003, "{leak}");
+}
+
+#[tokio::test]
+async fn an_amendment_keeps_both_records_with_who_and_when() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-108").await;
+    let path = format!("/api/v1/cylinders/{cylinder}/drift-tests");
+    let (_, first) = app.post_json(&path, &record("t-a1")).await;
+    let correction = with(record("t-a2"), json!({"drift": "7 mm", "amends": first["id"]}));
+    let (status, second) = app.post_json(&path, &correction).await;
+    assert_eq!(status, StatusCode::CREATED, "{second}");
+    assert_eq!(second["amends"], first["id"]);
+    assert_eq!(second["verdict"], "fail", "7 mm against 5 mm");
+    let (_, list) = app.get_json(&path).await;
+    let items = list["items"].as_array().expect("items");
+    assert_eq!(items.len(), 2, "both records stay");
+    let old = items.iter().find(|i| i["id"] == first["id"]).expect("old");
+    assert_eq!(old["amended_by"], second["id"]);
+    assert_eq!(old["in_force"], false);
+    assert_eq!(old["verdict"], "pass", "the old record is unchanged");
+    for item in items {
+        assert!(item["created_by"].as_str().is_some_and(|s| !s.is_empty()));
+        assert!(item["created_at"].as_str().is_some_and(|s| s.len() >= 20));
+    }
+    // The chain stays a line: amending the old record again is refused.
+    let again = with(record("t-a3"), json!({"amends": first["id"]}));
+    let (status, body) = app.post_json(&path, &again).await;
+    assert_field_error(status, &body, StatusCode::CONFLICT, "amends");
+    let audits: Vec<String> = sqlx::query_scalar(
+        "SELECT action FROM audit_log WHERE entity = 'drift_test' ORDER BY id",
+    )
+    .fetch_all(&app.db)
+    .await
+    .expect("audit");
+    assert_eq!(audits, ["create", "amend"]);
+}
+
+#[test]
+fn the_least_squares_trend_and_its_crossing_match_the_normal_equations() {
+    // [C] computed by hand from the normal equations of a straight-line fit: days 0..4,
+    // values 1.0, 1.9, 3.1, 3.9, 5.1 mm: mean day 2, mean value 3.0 mm,
+    // sum(dx dy) = 10.2, sum(dx^2) = 10, slope 1.02 mm/day, intercept 0.96 mm; an 8 mm
+    // limit is reached on day (8 - 0.96) / 1.02 = 6.902.
+    let day = 86_400.0;
+    let t0 = 1_700_000_000.0;
+    let values = [1.0, 1.9, 3.1, 3.9, 5.1];
+    let samples: Vec<Sample> = values
+        .iter()
+        .enumerate()
+        .map(|(i, v)| Sample {
+            at: t0 + i as f64 * day,
+            value: v * 1e-3,
+        })
+        .collect();
+    let line = trend::least_squares(&samples).expect("a line");
+    assert!((line.slope * day - 1.02e-3).abs() < 1e-12, "{}", line.slope * day);
+    assert!((line.value_at(t0) - 0.96e-3).abs() < 1e-12);
+    let p = trend::project(&samples, 8e-3, trend::RECENT_TESTS);
+    match p.crossing {
+        Crossing::Estimated { at } => {
+            let days = (at - t0) / day;
+            assert!((days - 7.04 / 1.02).abs() < 1e-6, "{days}");
+        }
+        other => panic!("expected an estimate, got {other:?}"),
+    }
+    // Falling values never cross; one test is too few; a limit already passed is reached.
+    let falling: Vec<Sample> = samples
+        .iter()
+        .map(|s| Sample {
+            at: s.at,
+            value: 6e-3 - s.value,
+        })
+        .collect();
+    assert_eq!(trend::project(&falling, 8e-3, 8).crossing, Crossing::NotRising);
+    assert_eq!(trend::project(&samples[..1], 8e-3, 8).crossing, Crossing::TooFew);
+    assert!(matches!(
+        trend::project(&samples, 4e-3, 8).crossing,
+        Crossing::Reached { .. }
+    ));
+    // Only the latest `recent` tests count: a worn seal's recent rise is not averaged away.
+    let recent = trend::project(&samples, 8e-3, 2);
+    assert_eq!(recent.used, 2);
+    let slope = recent.line.expect("line").slope * day;
+    assert!((slope - 1.2e-3).abs() < 1e-12, "last two: 3.9 -> 5.1 mm in a day");
+}

@@ -81,7 +81,9 @@ fn shared(kind: &str, limit_mm: f64, hold: &str, measure: &str) -> ProcedureFiel
         cylinder_id: None,
         machine_kind: Some(kind.into()),
         hold_load: Some(hold.into()),
-        posture: Some("Engine at idle, controls in neutral, load raised clear of the ground".into()),
+        posture: Some(
+            "Engine at idle, controls in neutral, load raised clear of the ground".into(),
+        ),
         measure_at: Some(measure.into()),
         oil_temperature_min_k: Some(40.0 + ZERO_C),
         oil_temperature_max_k: Some(60.0 + ZERO_C),
@@ -90,7 +92,9 @@ fn shared(kind: &str, limit_mm: f64, hold: &str, measure: &str) -> ProcedureFiel
         limit_pressure_drop_pa: None,
         limit_period_s: Some(600.0),
         oil_expansion_per_k: Some(7e-4),
-        notes: Some("Support the load before anyone works beneath it; stand clear during the hold.".into()),
+        notes: Some(
+            "Support the load before anyone works beneath it; stand clear during the hold.".into(),
+        ),
         limits: Vec::new(),
     }
 }
@@ -106,14 +110,70 @@ fn capitalised(text: &str) -> String {
 /// The procedures of the demo; returns them by machine kind, and the press's decay procedure.
 async fn load_procedures(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<usize, String> {
     let table: HashMap<&str, (f64, &str, &str)> = HashMap::from([
-        ("telehandler", (8.0, "Rated load on the forks at half reach", "Exposed rod from gland face to the paint mark")),
-        ("excavator", (10.0, "Bucket heaped, arm vertical, boom level", "Bucket tooth height above a marked board")),
-        ("wheel loader", (10.0, "Bucket full, arms raised to carry height", "Exposed rod from gland face to the paint mark")),
-        ("scissor lift", (5.0, "Rated platform load", "Platform height against a fixed rule")),
-        ("boom lift", (5.0, "Rated basket load, boom horizontal", "Basket floor height above a marked board")),
-        ("skid steer loader", (10.0, "Bucket full, arms raised to carry height", "Exposed rod from gland face to the paint mark")),
-        ("tipper trailer", (15.0, "Body loaded, raised a quarter", "Exposed rod from gland face to the paint mark")),
-        ("press", (2.0, "Test block at rated force", "Ram position on the dial gauge")),
+        (
+            "telehandler",
+            (
+                8.0,
+                "Rated load on the forks at half reach",
+                "Exposed rod from gland face to the paint mark",
+            ),
+        ),
+        (
+            "excavator",
+            (
+                10.0,
+                "Bucket heaped, arm vertical, boom level",
+                "Bucket tooth height above a marked board",
+            ),
+        ),
+        (
+            "wheel loader",
+            (
+                10.0,
+                "Bucket full, arms raised to carry height",
+                "Exposed rod from gland face to the paint mark",
+            ),
+        ),
+        (
+            "scissor lift",
+            (
+                5.0,
+                "Rated platform load",
+                "Platform height against a fixed rule",
+            ),
+        ),
+        (
+            "boom lift",
+            (
+                5.0,
+                "Rated basket load, boom horizontal",
+                "Basket floor height above a marked board",
+            ),
+        ),
+        (
+            "skid steer loader",
+            (
+                10.0,
+                "Bucket full, arms raised to carry height",
+                "Exposed rod from gland face to the paint mark",
+            ),
+        ),
+        (
+            "tipper trailer",
+            (
+                15.0,
+                "Body loaded, raised a quarter",
+                "Exposed rod from gland face to the paint mark",
+            ),
+        ),
+        (
+            "press",
+            (
+                2.0,
+                "Test block at rated force",
+                "Ram position on the dial gauge",
+            ),
+        ),
     ]);
     let mut count = 0;
     let mut tx = db.begin().await.map_err(|e| e.to_string())?;
@@ -131,7 +191,12 @@ async fn load_procedures(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<
     for (m, cyls) in units {
         for c in cyls {
             if m.unit_number == "HV-TH-01" && c.function.as_deref() == Some("Boom lift") {
-                let mut p = shared(&m.kind, 8.0, "Rated load on the forks, boom at 40 degrees", "Exposed rod from gland face to the paint mark");
+                let mut p = shared(
+                    &m.kind,
+                    8.0,
+                    "Rated load on the forks, boom at 40 degrees",
+                    "Exposed rod from gland face to the paint mark",
+                );
                 p.name = "Boom lift, maker's temperature table".into();
                 p.cylinder_id = Some(c.id);
                 p.machine_kind = None;
@@ -144,18 +209,27 @@ async fn load_procedures(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<
                         limit_period_s: 600.0,
                     })
                     .collect();
-                procedures::insert(&mut tx, LOADER, &p).await.map_err(|e| e.to_string())?;
+                procedures::insert(&mut tx, LOADER, &p)
+                    .await
+                    .map_err(|e| e.to_string())?;
                 count += 1;
             }
             if m.kind == "press" {
-                let mut p = shared("press", 2.0, "Ram driven to full stroke", "Gauge on the cap-end test point");
+                let mut p = shared(
+                    "press",
+                    2.0,
+                    "Ram driven to full stroke",
+                    "Gauge on the cap-end test point",
+                );
                 p.kind = "decay".into();
                 p.name = "Ram blocked at full stroke".into();
                 p.cylinder_id = Some(c.id);
                 p.machine_kind = None;
                 p.limit_distance_m = None;
                 p.limit_pressure_drop_pa = Some(10e5);
-                procedures::insert(&mut tx, LOADER, &p).await.map_err(|e| e.to_string())?;
+                procedures::insert(&mut tx, LOADER, &p)
+                    .await
+                    .map_err(|e| e.to_string())?;
                 count += 1;
             }
         }
@@ -170,7 +244,10 @@ fn holding_bar(c: &Cylinder) -> (f64, bool) {
     let area = Geometry::new(c.bore_m, c.rod_m, c.stroke_m)
         .map(|g| g.area(direction.holding_end()))
         .unwrap_or(1.0);
-    (c.max_load_n.unwrap_or(0.0) / area / 1e5, direction == LoadDirection::Retract)
+    (
+        c.max_load_n.unwrap_or(0.0) / area / 1e5,
+        direction == LoadDirection::Retract,
+    )
 }
 
 /// The readings of the `k`-th of `n` tests of a cylinder, as the shop form would send them.
@@ -223,15 +300,33 @@ fn base(drift_mm: f64, duration_s: f64, t0: f64, t1: f64) -> Map<String, Value> 
     let mut m = Map::new();
     m.insert("drift".into(), json!(format!("{drift_mm:.1} mm")));
     m.insert("duration".into(), json!(format!("{duration_s} s")));
-    m.insert("oil_temperature_start".into(), json!(format!("{t0:.1} degC")));
+    m.insert(
+        "oil_temperature_start".into(),
+        json!(format!("{t0:.1} degC")),
+    );
     m.insert("oil_temperature_end".into(), json!(format!("{t1:.1} degC")));
     m
 }
 
-fn pressures(m: &mut Map<String, Value>, cap_holds: bool, hold: (f64, f64), other: Option<(f64, f64)>) {
-    let (h, o) = if cap_holds { ("cap", "rod") } else { ("rod", "cap") };
-    m.insert(format!("{h}_pressure_start"), json!(format!("{:.1} bar", hold.0)));
-    m.insert(format!("{h}_pressure_end"), json!(format!("{:.1} bar", hold.1)));
+fn pressures(
+    m: &mut Map<String, Value>,
+    cap_holds: bool,
+    hold: (f64, f64),
+    other: Option<(f64, f64)>,
+) {
+    let (h, o) = if cap_holds {
+        ("cap", "rod")
+    } else {
+        ("rod", "cap")
+    };
+    m.insert(
+        format!("{h}_pressure_start"),
+        json!(format!("{:.1} bar", hold.0)),
+    );
+    m.insert(
+        format!("{h}_pressure_end"),
+        json!(format!("{:.1} bar", hold.1)),
+    );
     if let Some((a, b)) = other {
         m.insert(format!("{o}_pressure_start"), json!(format!("{a:.1} bar")));
         m.insert(format!("{o}_pressure_end"), json!(format!("{b:.1} bar")));
@@ -243,8 +338,15 @@ fn pressures(m: &mut Map<String, Value>, cap_holds: bool, hold: (f64, f64), othe
 fn test_dates(m: &Machine, c: &Cylinder, interval: i64) -> Vec<Date> {
     let registered = parse(&m.created_at[..10.min(m.created_at.len())]).unwrap_or(days_ago(730));
     let mut day = days_ago(730).max(registered + Duration::days(14));
-    let stop = if m.unit_number == "HV-TT-10" { days_ago(250) } else { days_ago(4) };
-    let stop = match (story(&m.unit_number, c.function.as_deref().unwrap_or("")), &m.out_of_service_since) {
+    let stop = if m.unit_number == "HV-TT-10" {
+        days_ago(250)
+    } else {
+        days_ago(4 + (c.id * 11) % 40)
+    };
+    let stop = match (
+        story(&m.unit_number, c.function.as_deref().unwrap_or("")),
+        &m.out_of_service_since,
+    ) {
         (Story::Settling, Some(since)) => parse(since).unwrap_or(stop),
         _ => stop,
     };
@@ -253,7 +355,10 @@ fn test_dates(m: &Machine, c: &Cylinder, interval: i64) -> Vec<Date> {
         out.push(day);
         day += Duration::days(interval);
     }
-    if out.last().is_some_and(|d| *d < stop - Duration::days(interval / 2)) {
+    if out
+        .last()
+        .is_some_and(|d| *d < stop - Duration::days(interval / 2))
+    {
         out.push(stop);
     }
     out
@@ -277,13 +382,23 @@ async fn load_tests(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<(usiz
             let dates = test_dates(m, c, interval);
             for (k, day) in dates.iter().enumerate() {
                 let mut body = readings(c, s, k, dates.len());
-                body.insert("technician".into(), json!(TECHNICIANS[(c.id as usize + k) % 4]));
+                body.insert(
+                    "technician".into(),
+                    json!(TECHNICIANS[(c.id as usize + k) % 4]),
+                );
                 body.insert("tested_at".into(), json!(stamp(*day, 8 + (k % 8) as u8)));
-                body.insert("client_token".into(), json!(format!("demo-drift-{}-{k}", c.id)));
+                body.insert(
+                    "client_token".into(),
+                    json!(format!("demo-drift-{}-{k}", c.id)),
+                );
                 if let Some(p) = procedure {
                     body.insert("procedure_id".into(), json!(p));
                 }
-                let what = format!("{} {} test {k}", m.unit_number, c.function.as_deref().unwrap_or("?"));
+                let what = format!(
+                    "{} {} test {k}",
+                    m.unit_number,
+                    c.function.as_deref().unwrap_or("?")
+                );
                 let new = drift_api::prepare(db, c, m, &body, None)
                     .await
                     .map_err(|p| problems(&what, p))?;
@@ -321,10 +436,14 @@ async fn load_tests(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<(usiz
     }
     let mut tx = db.begin().await.map_err(|e| e.to_string())?;
     for t in &drift {
-        drift_tests::insert(&mut tx, LOADER, t).await.map_err(|e| e.to_string())?;
+        drift_tests::insert(&mut tx, LOADER, t)
+            .await
+            .map_err(|e| e.to_string())?;
     }
     for t in &decay {
-        decay_tests::insert(&mut tx, LOADER, t).await.map_err(|e| e.to_string())?;
+        decay_tests::insert(&mut tx, LOADER, t)
+            .await
+            .map_err(|e| e.to_string())?;
     }
     tx.commit().await.map_err(|e| e.to_string())?;
     Ok((drift.len(), decay.len()))
@@ -334,21 +453,31 @@ mod inspections;
 
 /// Adds the shop history to a freshly loaded demo fleet; returns a summary.
 pub async fn load(db: &Db) -> Result<String, String> {
-    let page = machines::list(db, &MachineFilter::default(), Window { after_id: 0, limit: 200 })
-        .await
-        .map_err(|e| e.to_string())?;
+    let page = machines::list(
+        db,
+        &MachineFilter::default(),
+        Window {
+            after_id: 0,
+            limit: 200,
+        },
+    )
+    .await
+    .map_err(|e| e.to_string())?;
     let mut units = Vec::new();
     for m in page.items {
-        let cyls = cylinders::of_machine(db, m.id).await.map_err(|e| e.to_string())?;
+        let cyls = cylinders::of_machine(db, m.id)
+            .await
+            .map_err(|e| e.to_string())?;
         units.push((m, cyls));
     }
     let procedure_count = load_procedures(db, &units).await?;
     let (drift, decay) = load_tests(db, &units).await?;
     let inspection_count = inspections::load(db, &units).await?;
-    let out: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM machines WHERE status = 'out_of_service'")
-        .fetch_one(db)
-        .await
-        .map_err(|e| e.to_string())?;
+    let out: i64 =
+        sqlx::query_scalar("SELECT COUNT(*) FROM machines WHERE status = 'out_of_service'")
+            .fetch_one(db)
+            .await
+            .map_err(|e| e.to_string())?;
     Ok(format!(
         "history: {procedure_count} procedures, {drift} drift tests, {decay} pressure-decay tests, \
          {inspection_count} inspections; {out} machines out of service"

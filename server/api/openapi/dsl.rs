@@ -40,16 +40,16 @@ pub fn integer() -> S {
 /// A whole number in `min..=max`.
 pub fn int_range(min: i64, max: i64) -> S {
     typed(Type::Integer)
-        .minimum(Some(min as f64))
-        .maximum(Some(max as f64))
+        .minimum(Some(min))
+        .maximum(Some(max))
         .into()
 }
 
 /// An id of a stored record (a positive whole number that fits in 64 bits).
 pub fn id() -> S {
     typed(Type::Integer)
-        .minimum(Some(1.0))
-        .maximum(Some(9e18))
+        .minimum(Some(1i64))
+        .maximum(Some(i64::MAX))
         .into()
 }
 

@@ -26,7 +26,7 @@ fn units_param(op: Op) -> Op {
 
 fn paging(op: Op) -> Op {
     op.query("limit", int_range(1, 200), "Page size (default 50).")
-        .query("cursor", int_range(0, 9_000_000_000_000_000_000), "The next_cursor of the page before.")
+        .query("cursor", int_range(0, i64::MAX), "The next_cursor of the page before.")
         .query("archived", flag(), "Include archived records.")
 }
 

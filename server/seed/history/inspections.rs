@@ -24,7 +24,11 @@ fn rate(unit: &str) -> f64 {
 /// The meter reading on `day`, from the registry's reading and the machine's rate.
 fn hours(m: &Machine, day: Date) -> Option<f64> {
     let h = m.hour_meter_h?;
-    let read_on = m.hour_meter_read_on.as_deref().and_then(parse).unwrap_or(day);
+    let read_on = m
+        .hour_meter_read_on
+        .as_deref()
+        .and_then(parse)
+        .unwrap_or(day);
     let days = (day - read_on).whole_days() as f64;
     Some(((h + rate(&m.unit_number) * days).max(0.0) * 10.0).round() / 10.0)
 }
@@ -75,8 +79,10 @@ fn plan(m: &Machine) -> Vec<Planned> {
             let mut p = plain(days_ago(back), "periodic");
             if first && m.unit_number == "HV-EX-04" {
                 p.result = "pass_with_deficiencies";
-                p.deficiencies = Some("Bucket cylinder rod lightly scored 60 mm from the gland; no leak yet.");
-                p.corrective = Some("Monitor at each frequent check; rod re-chrome at next major service.");
+                p.deficiencies =
+                    Some("Bucket cylinder rod lightly scored 60 mm from the gland; no leak yet.");
+                p.corrective =
+                    Some("Monitor at each frequent check; rod re-chrome at next major service.");
                 p.item = Some(("rod", "attention", "Light scoring, bucket cylinder"));
             }
             p.typo = first && m.unit_number == "HV-TH-14";
@@ -95,8 +101,12 @@ fn plan(m: &Machine) -> Vec<Planned> {
             let mut p = plain(day, "frequent");
             if k == 0 && m.unit_number == "HV-SS-16" {
                 p.result = "fail";
-                p.deficiencies = Some("Bucket tilt hose chafed through to the braid at the arm pivot; oil mist on the arm.");
-                p.corrective = Some("Do not use. Replace the hose assembly and fit a clamp; inspect the other arm hoses.");
+                p.deficiencies = Some(
+                    "Bucket tilt hose chafed through to the braid at the arm pivot; oil mist on the arm.",
+                );
+                p.corrective = Some(
+                    "Do not use. Replace the hose assembly and fit a clamp; inspect the other arm hoses.",
+                );
                 p.item = Some(("hoses", "fail", "Chafed to the braid at the arm pivot"));
             }
             out.push(p);
@@ -106,7 +116,12 @@ fn plan(m: &Machine) -> Vec<Planned> {
     out
 }
 
-fn body(m: &Machine, p: &Planned, hour_meter: Option<f64>, token: String) -> serde_json::Map<String, Value> {
+fn body(
+    m: &Machine,
+    p: &Planned,
+    hour_meter: Option<f64>,
+    token: String,
+) -> serde_json::Map<String, Value> {
     let items: Vec<Value> = api::STANDARD_ITEMS
         .iter()
         .map(|(item, _)| {
@@ -145,10 +160,20 @@ pub async fn load(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<usize, 
     for (m, _) in units {
         for (k, p) in plan(m).iter().enumerate() {
             let reading = hours(m, p.day);
-            let typed = if p.typo { reading.map(|h| h * 10.0) } else { reading };
+            let typed = if p.typo {
+                reading.map(|h| h * 10.0)
+            } else {
+                reading
+            };
             let token = format!("demo-inspection-{}-{k}", m.id);
-            let what = format!("{} {} inspection {}", m.unit_number, p.kind, date_text(p.day));
-            let new = api::prepare(m, &body(m, p, typed, token), None).map_err(|e| problems(&what, e))?;
+            let what = format!(
+                "{} {} inspection {}",
+                m.unit_number,
+                p.kind,
+                date_text(p.day)
+            );
+            let new =
+                api::prepare(m, &body(m, p, typed, token), None).map_err(|e| problems(&what, e))?;
             let stored = inspections::insert(&mut tx, LOADER, &new)
                 .await
                 .map_err(|e| format!("{what}: {e}"))?;

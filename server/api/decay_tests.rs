@@ -5,10 +5,10 @@
 use super::calc_input::{DECAY_FIELDS, calc_error, parse_cylinder_request, parse_decay_readings};
 use super::calc_output::decay_response;
 use super::draft::{Problems, first};
-use super::drift_tests::{applicable_procedure, cylinder_request};
 use super::input::{Body, Fields};
 use super::paging::path_id;
 use super::shop_input::{self, si};
+use super::shop_request::{applicable_procedure, cylinder_request};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::CALC_VERSION;

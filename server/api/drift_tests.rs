@@ -8,17 +8,17 @@ use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
 use super::shop_input::{self, si};
+use super::shop_request::{applicable_procedure, cylinder_request};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::CALC_VERSION;
-use crate::calc::cylinder::{Cylinder as Geometry, LoadDirection};
 use crate::calc::drift::{Movement, analyse_drift};
 use crate::calc::quantity::Dimension as D;
+use crate::db::Db;
 use crate::db::cylinders::{self, Cylinder};
 use crate::db::drift_tests::{self as store, DriftTest, NewDriftTest, Stored};
 use crate::db::machines::{self, Machine};
-use crate::db::procedures::{self, Procedure};
-use crate::db::{Db, hoses};
+use crate::db::procedures::Procedure;
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
@@ -93,106 +93,6 @@ fn check_readings(f: &Fields, problems: &mut Problems) {
         problems.take(f.opt_quantity(name, D::Volume));
     }
     problems.take(f.units());
-}
-
-/// The procedure named by `procedure_id`, checked to be a drift procedure that applies to
-/// this cylinder (its own, or shared by its machine's kind) and not archived.
-pub async fn applicable_procedure(
-    db: &Db,
-    id: i64,
-    kind: &str,
-    cylinder: &Cylinder,
-    machine: &Machine,
-) -> Result<Procedure, AppError> {
-    let bad = |message: String| AppError::field("procedure_id", "invalid_reference", message);
-    let p = procedures::find(db, id)
-        .await?
-        .ok_or_else(|| bad(format!("there is no procedure {id}")))?;
-    if p.kind != kind {
-        return Err(bad(format!("procedure {id} is a {} procedure", p.kind)));
-    }
-    if p.archived_at.is_some() {
-        return Err(bad(format!("procedure {id} is archived")));
-    }
-    let fits = p.cylinder_id == Some(cylinder.id)
-        || p.machine_kind.as_deref() == Some(machine.kind.as_str());
-    if !fits {
-        return Err(bad(format!(
-            "procedure {id} is for another cylinder or machine kind"
-        )));
-    }
-    Ok(p)
-}
-
-/// The calculation request for a registry cylinder: its geometry, held load, relief setting,
-/// tube, end condition and ratings (cylinder and each rated hose on its ports), as SI JSON.
-pub async fn cylinder_request(
-    db: &Db,
-    c: &Cylinder,
-    load_given: bool,
-) -> Result<Map<String, Value>, AppError> {
-    let mut r = Map::new();
-    r.insert("bore".into(), si(c.bore_m, D::Length));
-    r.insert("rod".into(), si(c.rod_m, D::Length));
-    r.insert("stroke".into(), si(c.stroke_m, D::Length));
-    r.insert("load_direction".into(), json!(c.load_direction));
-    if !load_given {
-        let geometry = Geometry::new(c.bore_m, c.rod_m, c.stroke_m)
-            .map_err(|e| AppError::internal(e.message))?;
-        let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
-        let load = c.max_load_n.or_else(|| {
-            c.holding_pressure_pa
-                .map(|p| p * geometry.area(direction.holding_end()))
-        });
-        match load {
-            Some(load) => {
-                r.insert("load".into(), si(load, D::Force));
-            }
-            None => {
-                return Err(AppError::field(
-                    "load",
-                    "required",
-                    "the cylinder record has no load or holding pressure; give the load held in this test",
-                ));
-            }
-        }
-    }
-    if let Some(p) = c.machine_relief_pressure_pa {
-        r.insert("supply_pressure".into(), si(p, D::Pressure));
-    }
-    if let Some(od) = c.tube_outside_diameter_m {
-        r.insert("tube_outside_diameter".into(), si(od, D::Length));
-        if let Some(y) = c.tube_yield_pa {
-            r.insert("tube_yield".into(), si(y, D::Pressure));
-        }
-    }
-    if let Some(e) = &c.end_condition {
-        r.insert("end_condition".into(), json!(e));
-    }
-    let mut ratings = Map::new();
-    if let Some(p) = c.rated_pressure_pa {
-        ratings.insert("cylinder".into(), si(p, D::Pressure));
-    }
-    let fitted: Vec<Value> = hoses::of_machine(db, c.machine_id)
-        .await?
-        .into_iter()
-        .filter(|h| h.cylinder_id == Some(c.id))
-        .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
-            (Some(rating), Some(port)) => Some(json!({
-                "label": format!("H{} ({})", h.id, h.place()),
-                "port": port,
-                "rating": si(rating, D::Pressure),
-            })),
-            _ => None,
-        })
-        .collect();
-    if !fitted.is_empty() {
-        ratings.insert("hoses".into(), Value::Array(fitted));
-    }
-    if !ratings.is_empty() {
-        r.insert("ratings".into(), Value::Object(ratings));
-    }
-    Ok(r)
 }
 
 /// Reads a drift-test body (API JSON or the shop form, already as JSON) for `cylinder`, builds

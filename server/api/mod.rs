@@ -30,6 +30,7 @@ pub mod drift_tests;
 pub mod inspections;
 pub mod procedures;
 pub mod shop_input;
+pub mod shop_request;
 
 // reports
 pub mod report_rows;

@@ -4,7 +4,7 @@
 
 use super::drift_tests::Stored;
 use super::write::{WriteError, is_unique_violation, snapshot};
-use super::{Db, audit};
+use super::{Db, audit, cylinders};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -182,6 +182,7 @@ pub async fn insert(
     {
         return repeated(found, t.cylinder_id);
     }
+    check_cylinder(conn, t.cylinder_id).await?;
     let before = match t.amends_id {
         Some(amends) => Some(check_amends(conn, t.cylinder_id, amends).await?),
         None => None,
@@ -257,4 +258,16 @@ pub async fn insert(
     )
     .await?;
     Ok(Stored::Created(stored))
+}
+
+/// Refuses a test on a cylinder that does not exist or is archived.
+async fn check_cylinder(conn: &mut SqliteConnection, id: i64) -> Result<(), WriteError> {
+    match cylinders::get(conn, id).await? {
+        None => Err(WriteError::NotFound("cylinder")),
+        Some(c) if c.archived_at.is_some() => Err(WriteError::conflict(
+            "cylinder",
+            "this cylinder is archived; restore it before recording tests",
+        )),
+        Some(_) => Ok(()),
+    }
 }

@@ -133,6 +133,16 @@ impl Procedure {
     }
 }
 
+macro_rules! select_procedure {
+    () => {
+        "SELECT id, kind, name, cylinder_id, machine_kind, hold_load, posture, measure_at,
+            oil_temperature_min_k, oil_temperature_max_k, duration_s, limit_distance_m,
+            limit_pressure_drop_pa, limit_period_s, oil_expansion_per_k, notes, created_at,
+            created_by, updated_at, archived_at
+         FROM test_procedures "
+    };
+}
+
 async fn load_limits(conn: &mut SqliteConnection, p: &mut Procedure) -> Result<(), sqlx::Error> {
     p.limits = sqlx::query_as::<_, LimitRow>(
         "SELECT oil_temperature_from_k, limit_distance_m, limit_pressure_drop_pa, limit_period_s
@@ -147,15 +157,10 @@ async fn load_limits(conn: &mut SqliteConnection, p: &mut Procedure) -> Result<(
 
 /// One procedure by id, with its limit table.
 pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<Procedure>, sqlx::Error> {
-    let found = sqlx::query_as::<_, Procedure>(
-        "SELECT id, kind, name, cylinder_id, machine_kind, hold_load, posture,
-            measure_at, oil_temperature_min_k, oil_temperature_max_k, duration_s, limit_distance_m,
-            limit_pressure_drop_pa, limit_period_s, oil_expansion_per_k, notes, created_at,
-            created_by, updated_at, archived_at FROM test_procedures WHERE id = ?",
-    )
-    .bind(id)
-    .fetch_optional(&mut *conn)
-    .await?;
+    let found = sqlx::query_as::<_, Procedure>(concat!(select_procedure!(), "WHERE id = ?"))
+        .bind(id)
+        .fetch_optional(&mut *conn)
+        .await?;
     match found {
         Some(mut p) => {
             load_limits(conn, &mut p).await?;
@@ -182,15 +187,12 @@ pub struct ProcedureFilter {
 /// Procedures by id, filtered (at most 500).
 pub async fn list(db: &Db, f: &ProcedureFilter) -> Result<Vec<Procedure>, sqlx::Error> {
     let mut conn = db.acquire().await?;
-    let mut rows = sqlx::query_as::<_, Procedure>(
-        "SELECT id, kind, name, cylinder_id, machine_kind, hold_load, posture,
-            measure_at, oil_temperature_min_k, oil_temperature_max_k, duration_s, limit_distance_m,
-            limit_pressure_drop_pa, limit_period_s, oil_expansion_per_k, notes, created_at,
-            created_by, updated_at, archived_at FROM test_procedures
-         WHERE (? IS NULL OR kind = ?) AND (? IS NULL OR cylinder_id = ?)
+    let mut rows = sqlx::query_as::<_, Procedure>(concat!(
+        select_procedure!(),
+        "WHERE (? IS NULL OR kind = ?) AND (? IS NULL OR cylinder_id = ?)
            AND (? IS NULL OR machine_kind = ?) AND (? OR archived_at IS NULL)
-         ORDER BY id LIMIT 500",
-    )
+         ORDER BY id LIMIT 500"
+    ))
     .bind(&f.kind)
     .bind(&f.kind)
     .bind(f.cylinder_id)
@@ -215,14 +217,11 @@ pub async fn for_cylinder(
     kind: &str,
 ) -> Result<Vec<Procedure>, sqlx::Error> {
     let mut conn = db.acquire().await?;
-    let mut rows = sqlx::query_as::<_, Procedure>(
-        "SELECT id, kind, name, cylinder_id, machine_kind, hold_load, posture,
-            measure_at, oil_temperature_min_k, oil_temperature_max_k, duration_s, limit_distance_m,
-            limit_pressure_drop_pa, limit_period_s, oil_expansion_per_k, notes, created_at,
-            created_by, updated_at, archived_at FROM test_procedures
-         WHERE kind = ? AND archived_at IS NULL AND (cylinder_id = ? OR machine_kind = ?)
-         ORDER BY CASE WHEN cylinder_id IS NULL THEN 1 ELSE 0 END, id",
-    )
+    let mut rows = sqlx::query_as::<_, Procedure>(concat!(
+        select_procedure!(),
+        "WHERE kind = ? AND archived_at IS NULL AND (cylinder_id = ? OR machine_kind = ?)
+         ORDER BY CASE WHEN cylinder_id IS NULL THEN 1 ELSE 0 END, id"
+    ))
     .bind(kind)
     .bind(cylinder_id)
     .bind(machine_kind)
@@ -235,24 +234,15 @@ pub async fn for_cylinder(
 }
 
 async fn check_target(conn: &mut SqliteConnection, f: &ProcedureFields) -> Result<(), WriteError> {
-    if let Some(id) = f.cylinder_id {
-        match cylinders::get(conn, id).await? {
-            None => {
-                return Err(WriteError::invalid(
-                    "cylinder_id",
-                    format!("there is no cylinder {id}"),
-                ));
-            }
-            Some(c) if c.archived_at.is_some() => {
-                return Err(WriteError::invalid(
-                    "cylinder_id",
-                    format!("cylinder {id} is archived"),
-                ));
-            }
-            Some(_) => {}
-        }
-    }
-    Ok(())
+    let Some(id) = f.cylinder_id else {
+        return Ok(());
+    };
+    let message = match cylinders::get(conn, id).await? {
+        None => format!("there is no cylinder {id}"),
+        Some(c) if c.archived_at.is_some() => format!("cylinder {id} is archived"),
+        Some(_) => return Ok(()),
+    };
+    Err(WriteError::invalid("cylinder_id", message))
 }
 
 async fn write_limits(

@@ -43,6 +43,8 @@ pub struct CylinderPage {
     pub panel: Panel,
     pub headings: Vec<&'static str>,
     pub hoses: Vec<HoseLine>,
+    /// shop: the drift-test history with its chart.
+    pub history: crate::pages::shop::history::HistoryPanel,
 }
 
 /// `GET /cylinders/{id}`; `?units=us|metric` overrides the site's units.
@@ -67,6 +69,10 @@ pub async fn show(
     let units = pick_units(params.units().ok().flatten(), c.site_units.as_deref());
     let length = |si: f64| q(Some(si), Dimension::Length, units);
     let panel = safety::panel(&c, &fitted, units);
+    let history = match crate::pages::shop::history::history_panel(&state.db, c.id, units).await {
+        Ok(h) => h,
+        Err(e) => return page_error(e),
+    };
     CylinderPage {
         ctx,
         id: c.id,
@@ -113,6 +119,7 @@ pub async fn show(
             .collect(),
         panel,
         hoses: fitted.iter().map(|h| hose_line(h, units)).collect(),
+        history,
     }
     .into_response()
 }

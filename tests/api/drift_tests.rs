@@ -5,7 +5,6 @@
 use crate::helpers::{TestApp, assert_field_error};
 use crate::registry_fixtures::machine;
 use axum::http::StatusCode;
-use loadhold::calc::trend::{self, Crossing, Sample};
 use serde_json::{Map, Value, json};
 
 /// A 100 mm bore, 70 mm rod, 800 mm stroke cylinder holding 50 kN that pushes its rod in;
@@ -70,7 +69,11 @@ async fn a_drift_test_is_analysed_exactly_as_the_calculation_api_answers_and_sto
     assert!(stored["id"].as_i64().is_some());
     assert_eq!(stored["technician"], "R. Okafor");
     assert_eq!(stored["tested_at"], "2025-03-14T09:30:00Z");
-    assert!(stored["calc_version"].as_str().is_some_and(|v| !v.is_empty()));
+    assert!(
+        stored["calc_version"]
+            .as_str()
+            .is_some_and(|v| !v.is_empty())
+    );
 
     // The same readings with the cylinder's geometry and load, sent to the calculation API.
     let calc = with(
@@ -80,7 +83,10 @@ async fn a_drift_test_is_analysed_exactly_as_the_calculation_api_answers_and_sto
     );
     let (status, answer) = app.post_json("/api/v1/calc/drift-test", &calc).await;
     assert_eq!(status, StatusCode::OK, "{answer}");
-    assert_eq!(stored["analysis"], answer, "stored analysis = calc API answer");
+    assert_eq!(
+        stored["analysis"], answer,
+        "stored analysis = calc API answer"
+    );
 
     // The stored readings are the request as sent to the core: replayed, the same answer.
     let (status, replay) = app
@@ -92,7 +98,9 @@ async fn a_drift_test_is_analysed_exactly_as_the_calculation_api_answers_and_sto
     // Oil steady: no thermal drift, so all 3 mm is leak drift; 3 mm per 10 min against a
     // 5 mm per 10 min limit passes ([C] from the inputs).
     assert_eq!(stored["verdict"], "pass");
-    let scaled = stored["analysis"]["scaled_drift"]["si"].as_f64().expect("scaled");
+    let scaled = stored["analysis"]["scaled_drift"]["si"]
+        .as_f64()
+        .expect("scaled");
     assert!((scaled - 0.003).abs() < 1e-9, "{scaled}");
 
     let (status, list) = app.get_json(&path).await;
@@ -243,12 +251,20 @@ async fn a_procedure_sets_the_limit_by_oil_temperature_and_flags_a_test_outside_
     let limit = stored["analysis"]["limit"]["distance"]["si"].as_f64();
     assert!(limit.is_some_and(|l| (l - 0.004).abs() < 1e-12), "{stored}");
     let flags = stored["flags"].as_array().cloned().unwrap_or_default();
-    assert!(flags.contains(&json!("oil_temperature_below_window")), "{flags:?}");
-    assert!(flags.contains(&json!("oil_temperature_changed")), "{flags:?}");
+    assert!(
+        flags.contains(&json!("oil_temperature_below_window")),
+        "{flags:?}"
+    );
+    assert!(
+        flags.contains(&json!("oil_temperature_changed")),
+        "{flags:?}"
+    );
     assert_eq!(stored["procedure_id"], p["id"]);
     // The procedure's expansion coefficient went into the request: cooling 3 K explains part
     // of the drift, so the leak drift is less than the measured 3 mm.
-    let leak = stored["analysis"]["leak_drift"]["si"].as_f64().expect("leak");
+    let leak = stored["analysis"]["leak_drift"]["si"]
+        .as_f64()
+        .expect("leak");
     assert!(leak < 0.003, "{leak}");
 }
 
@@ -258,7 +274,10 @@ async fn an_amendment_keeps_both_records_with_who_and_when() {
     let (_, cylinder) = loaded_cylinder(&app, "HV-108").await;
     let path = format!("/api/v1/cylinders/{cylinder}/drift-tests");
     let (_, first) = app.post_json(&path, &record("t-a1")).await;
-    let correction = with(record("t-a2"), json!({"drift": "7 mm", "amends": first["id"]}));
+    let correction = with(
+        record("t-a2"),
+        json!({"drift": "7 mm", "amends": first["id"]}),
+    );
     let (status, second) = app.post_json(&path, &correction).await;
     assert_eq!(status, StatusCode::CREATED, "{second}");
     assert_eq!(second["amends"], first["id"]);
@@ -278,60 +297,149 @@ async fn an_amendment_keeps_both_records_with_who_and_when() {
     let again = with(record("t-a3"), json!({"amends": first["id"]}));
     let (status, body) = app.post_json(&path, &again).await;
     assert_field_error(status, &body, StatusCode::CONFLICT, "amends");
-    let audits: Vec<String> = sqlx::query_scalar(
-        "SELECT action FROM audit_log WHERE entity = 'drift_test' ORDER BY id",
+    let audits: Vec<String> =
+        sqlx::query_scalar("SELECT action FROM audit_log WHERE entity = 'drift_test' ORDER BY id")
+            .fetch_all(&app.db)
+            .await
+            .expect("audit");
+    assert_eq!(audits, ["create", "amend"]);
+}
+
+#[tokio::test]
+async fn a_pressure_decay_test_is_stored_as_the_calculation_api_answers() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-109").await;
+    let readings = json!({
+        "pressurised_end": "cap",
+        "duration": "10 min",
+        "pressure_start": "200 bar",
+        "pressure_end": "189.5 bar",
+        "oil_temperature_start": "41 degC",
+        "oil_temperature_end": "40 degC",
+        "limit": {"pressure": "15 bar", "per": "10 min"},
+    });
+    let body = with(
+        readings.clone(),
+        json!({"technician": "R. Okafor", "tested_at": "2025-03-14T10:00:00Z", "client_token": "d-1"}),
+    );
+    let path = format!("/api/v1/cylinders/{cylinder}/decay-tests");
+    let (status, stored) = app.post_json(&path, &body).await;
+    assert_eq!(status, StatusCode::CREATED, "{stored}");
+    let calc = with(
+        readings,
+        json!({"bore": "100 mm", "rod": "70 mm", "stroke": "800 mm",
+               "load": "50 kN", "load_direction": "retract", "units": "metric"}),
+    );
+    let (status, answer) = app.post_json("/api/v1/calc/pressure-decay", &calc).await;
+    assert_eq!(status, StatusCode::OK, "{answer}");
+    assert_eq!(stored["analysis"], answer);
+    // REFERENCES.md "Fluid properties" [C]: trapped oil changes about K x alpha per kelvin,
+    // 1.5 GPa x 7e-4 = 10.5 bar per degC; cooling 1 K explains a drop of about 10.5 bar
+    // (oil alone, no lines or tube given).
+    let thermal = stored["analysis"]["thermal_change"]["si"]
+        .as_f64()
+        .expect("thermal");
+    assert!(((thermal + 10.5e5) / 10.5e5).abs() < 0.01, "{thermal}");
+    let (_, again) = app.post_json(&path, &body).await;
+    assert_eq!(again["id"], stored["id"], "the token stores once");
+    let (_, list) = app.get_json(&path).await;
+    assert_eq!(list["items"].as_array().map(Vec::len), Some(1));
+}
+
+#[tokio::test]
+async fn procedures_are_created_read_updated_and_archived_never_deleted() {
+    let app = TestApp::new().await;
+    let (_, cylinder) = loaded_cylinder(&app, "HV-110").await;
+    let (status, p) = app
+        .post_json(
+            "/api/v1/procedures",
+            &json!({"name": "Telehandler boom hold", "machine_kind": "Telehandler",
+                    "duration": "10 min", "limit": {"distance": "8 mm", "per": "10 min"}}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{p}");
+    assert_eq!(
+        p["machine_kind"], "telehandler",
+        "kinds compare as the registry writes them"
+    );
+    let id = p["id"].as_i64().expect("id");
+    let (status, changed) = app
+        .patch_json(
+            &format!("/api/v1/procedures/{id}"),
+            &json!({"name": "Telehandler boom hold, rated load",
+                    "limit_table": [{"from": "30 degC", "distance": "6 mm", "per": "10 min"}]}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{changed}");
+    assert_eq!(
+        changed["limit"]["distance"]["si"], p["limit"]["distance"]["si"],
+        "untouched"
+    );
+    assert_eq!(changed["limit_table"].as_array().map(Vec::len), Some(1));
+    // The cylinder's machine is a telehandler: the shared procedure applies to it.
+    let mut body = record("t-shared");
+    body["procedure_id"] = json!(id);
+    let (status, _) = app
+        .post_json(&format!("/api/v1/cylinders/{cylinder}/drift-tests"), &body)
+        .await;
+    assert_eq!(status, StatusCode::CREATED);
+
+    let (status, _) = app
+        .patch_json(
+            &format!("/api/v1/procedures/{id}"),
+            &json!({"archived": true}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK);
+    let (_, list) = app.get_json("/api/v1/procedures").await;
+    assert_eq!(
+        list["items"].as_array().map(Vec::len),
+        Some(0),
+        "archived leave the list"
+    );
+    let (_, all) = app
+        .get_json("/api/v1/procedures?include_archived=true")
+        .await;
+    assert_eq!(all["items"][0]["id"], id, "and are kept");
+    let (status, _) = app
+        .json("DELETE", &format!("/api/v1/procedures/{id}"), None)
+        .await;
+    assert_eq!(status, StatusCode::METHOD_NOT_ALLOWED);
+    let actions: Vec<String> = sqlx::query_scalar(
+        "SELECT action FROM audit_log WHERE entity = 'test_procedure' ORDER BY id",
     )
     .fetch_all(&app.db)
     .await
     .expect("audit");
-    assert_eq!(audits, ["create", "amend"]);
-}
+    assert_eq!(actions, ["create", "update", "archive"]);
 
-#[test]
-fn the_least_squares_trend_and_its_crossing_match_the_normal_equations() {
-    // [C] computed by hand from the normal equations of a straight-line fit: days 0..4,
-    // values 1.0, 1.9, 3.1, 3.9, 5.1 mm: mean day 2, mean value 3.0 mm,
-    // sum(dx dy) = 10.2, sum(dx^2) = 10, slope 1.02 mm/day, intercept 0.96 mm; an 8 mm
-    // limit is reached on day (8 - 0.96) / 1.02 = 6.902.
-    let day = 86_400.0;
-    let t0 = 1_700_000_000.0;
-    let values = [1.0, 1.9, 3.1, 3.9, 5.1];
-    let samples: Vec<Sample> = values
-        .iter()
-        .enumerate()
-        .map(|(i, v)| Sample {
-            at: t0 + i as f64 * day,
-            value: v * 1e-3,
-        })
-        .collect();
-    let line = trend::least_squares(&samples).expect("a line");
-    assert!((line.slope * day - 1.02e-3).abs() < 1e-12, "{}", line.slope * day);
-    assert!((line.value_at(t0) - 0.96e-3).abs() < 1e-12);
-    let p = trend::project(&samples, 8e-3, trend::RECENT_TESTS);
-    match p.crossing {
-        Crossing::Estimated { at } => {
-            let days = (at - t0) / day;
-            assert!((days - 7.04 / 1.02).abs() < 1e-6, "{days}");
-        }
-        other => panic!("expected an estimate, got {other:?}"),
+    for (bad, field) in [
+        (
+            json!({"name": "x", "machine_kind": "telehandler", "cylinder_id": cylinder, "duration": "1 min"}),
+            "machine_kind",
+        ),
+        (json!({"name": "x", "duration": "1 min"}), "cylinder_id"),
+        (json!({"name": "x", "cylinder_id": cylinder}), "duration"),
+        (
+            json!({"name": "x", "cylinder_id": cylinder, "duration": "1 min", "limit_table": [
+            {"from": "50 degC", "distance": "6 mm", "per": "10 min"},
+            {"from": "30 degC", "distance": "4 mm", "per": "10 min"}]}),
+            "limit_table[1].from",
+        ),
+        (
+            json!({"name": "x", "cylinder_id": cylinder, "duration": "1 min", "kind": "squeeze"}),
+            "kind",
+        ),
+        (
+            json!({"name": "x", "cylinder_id": 9999, "duration": "1 min"}),
+            "cylinder_id",
+        ),
+        (
+            json!({"name": "x", "cylinder_id": cylinder, "duration": "1 min", "oil_temperature_min": "60 degC", "oil_temperature_max": "40 degC"}),
+            "oil_temperature_max",
+        ),
+    ] {
+        let (status, answer) = app.post_json("/api/v1/procedures", &bad).await;
+        assert_field_error(status, &answer, StatusCode::UNPROCESSABLE_ENTITY, field);
     }
-    // Falling values never cross; one test is too few; a limit already passed is reached.
-    let falling: Vec<Sample> = samples
-        .iter()
-        .map(|s| Sample {
-            at: s.at,
-            value: 6e-3 - s.value,
-        })
-        .collect();
-    assert_eq!(trend::project(&falling, 8e-3, 8).crossing, Crossing::NotRising);
-    assert_eq!(trend::project(&samples[..1], 8e-3, 8).crossing, Crossing::TooFew);
-    assert!(matches!(
-        trend::project(&samples, 4e-3, 8).crossing,
-        Crossing::Reached { .. }
-    ));
-    // Only the latest `recent` tests count: a worn seal's recent rise is not averaged away.
-    let recent = trend::project(&samples, 8e-3, 2);
-    assert_eq!(recent.used, 2);
-    let slope = recent.line.expect("line").slope * day;
-    assert!((slope - 1.2e-3).abs() < 1e-12, "last two: 3.9 -> 5.1 mm in a day");
 }

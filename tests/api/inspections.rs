@@ -27,7 +27,9 @@ pub fn inspection(result: &str, on: &str, token: &str) -> Value {
 }
 
 async fn status_of(app: &TestApp, machine_id: i64) -> (String, Option<i64>, Value) {
-    let (_, m) = app.get_json(&format!("/api/v1/machines/{machine_id}")).await;
+    let (_, m) = app
+        .get_json(&format!("/api/v1/machines/{machine_id}"))
+        .await;
     let cause: Option<i64> =
         sqlx::query_scalar("SELECT out_of_service_inspection_id FROM machines WHERE id = ?")
             .bind(machine_id)
@@ -62,7 +64,10 @@ async fn a_failed_inspection_takes_the_machine_out_of_service_and_a_later_pass_c
 
     // A later pass with deficiencies does.
     let (status, _) = app
-        .post_json(&path, &inspection("pass_with_deficiencies", "2025-02-10", "i-3"))
+        .post_json(
+            &path,
+            &inspection("pass_with_deficiencies", "2025-02-10", "i-3"),
+        )
         .await;
     assert_eq!(status, StatusCode::CREATED);
     let (state, cause, m) = status_of(&app, id).await;
@@ -121,7 +126,10 @@ async fn a_resubmitted_inspection_is_stored_once_and_fails_once() {
     .fetch_one(&app.db)
     .await
     .expect("count");
-    assert_eq!(status_changes, 2, "the status and the hour meter, once each");
+    assert_eq!(
+        status_changes, 2,
+        "the status and the hour meter, once each"
+    );
 }
 
 #[tokio::test]
@@ -136,13 +144,19 @@ async fn bad_inspection_input_names_its_field() {
         (json!({"hour_meter": -3}), "hour_meter"),
         (json!({"result": "ok"}), "result"),
         (json!({"inspector": null}), "inspector"),
-        (json!({"items": [{"item": "rod", "outcome": "fine"}]}), "items[0].outcome"),
+        (
+            json!({"items": [{"item": "rod", "outcome": "fine"}]}),
+            "items[0].outcome",
+        ),
         (
             json!({"items": [{"item": "external_leakage", "outcome": "ok", "leakage_class": 7}]}),
             "items[0].leakage_class",
         ),
         (json!({"items": "all good"}), "items"),
-        (json!({"deficiencies": null, "result": "fail"}), "deficiencies"),
+        (
+            json!({"deficiencies": null, "result": "fail"}),
+            "deficiencies",
+        ),
         (
             json!({"result": "pass", "items": [{"item": "rod", "outcome": "fail"}]}),
             "result",

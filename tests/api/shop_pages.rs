@@ -30,7 +30,10 @@ async fn count(app: &TestApp, table: &str) -> i64 {
         "drift_tests" => "SELECT COUNT(*) FROM drift_tests",
         _ => "SELECT COUNT(*) FROM inspections",
     };
-    sqlx::query_scalar(sql).fetch_one(&app.db).await.expect("count")
+    sqlx::query_scalar(sql)
+        .fetch_one(&app.db)
+        .await
+        .expect("count")
 }
 
 fn drift_form<'a>(token: &'a str, duration: &'a str) -> Vec<(&'a str, &'a str)> {
@@ -63,9 +66,18 @@ async fn the_drift_test_form_stores_once_and_shows_the_analysis_on_the_spot() {
     let form = format!("/shop/cylinders/{cylinder}/drift-test");
     let (status, _, page) = app.get_page(&form).await;
     assert_eq!(status, StatusCode::OK);
-    assert!(page.contains("name=\"csrf\""), "the form carries the csrf field");
-    assert!(page.contains("data-timer-for=\"f-duration\""), "the stopwatch button");
-    assert!(page.contains("Never feel for leaks by hand"), "the usual cautions are on the form");
+    assert!(
+        page.contains("name=\"csrf\""),
+        "the form carries the csrf field"
+    );
+    assert!(
+        page.contains("data-timer-for=\"f-duration\""),
+        "the stopwatch button"
+    );
+    assert!(
+        page.contains("Never feel for leaks by hand"),
+        "the usual cautions are on the form"
+    );
     let token = hidden(&page, "client_token");
     assert!(token.len() >= 32, "a server-made client token: {token}");
 
@@ -86,7 +98,10 @@ async fn the_drift_test_form_stores_once_and_shows_the_analysis_on_the_spot() {
     assert!(shown.contains("Sam Teller"), "signed by the technician");
     assert!(shown.contains("tag-ok"), "a pass shown by word and shape");
     assert!(shown.contains("Within the limit"));
-    assert!(shown.contains("<ol class=\"reasoning\"><li>"), "the reasoning is listed");
+    assert!(
+        shown.contains("<ol class=\"reasoning\"><li>"),
+        "the reasoning is listed"
+    );
     let (_, _, again) = app.get_page(&format!("{first}?repeat=1")).await;
     assert!(again.contains("Already saved"));
 
@@ -94,7 +109,10 @@ async fn the_drift_test_form_stores_once_and_shows_the_analysis_on_the_spot() {
         .fetch_one(&app.db)
         .await
         .expect("readings");
-    assert!(readings.contains("\"3 mm\""), "the unit chosen beside the input: {readings}");
+    assert!(
+        readings.contains("\"3 mm\""),
+        "the unit chosen beside the input: {readings}"
+    );
 }
 
 #[tokio::test]
@@ -108,12 +126,21 @@ async fn a_refused_form_keeps_every_value_and_marks_the_field() {
     fields.push(("notes", "Boom <b>level</b>, bucket empty"));
     let (status, _, again) = app.post_form(&form, &fields).await;
     assert_eq!(status, StatusCode::UNPROCESSABLE_ENTITY);
-    assert!(again.contains("id=\"err-duration\""), "the error beside the field");
+    assert!(
+        again.contains("id=\"err-duration\""),
+        "the error beside the field"
+    );
     assert!(again.contains("value=\"soon\""));
     assert!(again.contains("value=\"41\""));
     assert!(again.contains("value=\"Sam Teller\""));
-    assert!(again.contains("Boom &#60;b&#62;level&#60;/b&#62;") || again.contains("Boom &lt;b&gt;"));
-    assert_eq!(hidden(&again, "client_token"), token, "the same token, so a fix stores once");
+    assert!(
+        again.contains("Boom &#60;b&#62;level&#60;/b&#62;") || again.contains("Boom &lt;b&gt;")
+    );
+    assert_eq!(
+        hidden(&again, "client_token"),
+        token,
+        "the same token, so a fix stores once"
+    );
     assert_eq!(count(&app, "drift_tests").await, 0);
 
     // Corrected and sent again: stored.
@@ -176,7 +203,10 @@ async fn the_inspection_form_takes_the_machine_out_of_service_once() {
     let (status, _, again) = app.post_form(&form, &bad).await;
     assert_eq!(status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(again.contains("id=\"err-hour_meter\""));
-    assert!(again.contains("id=\"err-result\""), "a pass with a failed item is refused");
+    assert!(
+        again.contains("id=\"err-result\""),
+        "a pass with a failed item is refused"
+    );
     assert!(again.contains("value=\"Scored 40 mm from the gland\""));
     assert!(again.contains("value=\"lots\""));
 }
@@ -203,12 +233,26 @@ async fn the_cylinder_history_charts_the_leak_drift_with_its_limit_and_an_estima
     }
     let (status, _, page) = app.get_page(&format!("/shop/cylinders/{cylinder}")).await;
     assert_eq!(status, StatusCode::OK);
-    assert!(page.contains("<svg class=\"chart\""), "a server-rendered chart");
+    assert!(
+        page.contains("<svg class=\"chart\""),
+        "a server-rendered chart"
+    );
     assert!(page.contains("class=\"limit-line\""), "the limit line");
     assert!(page.contains("class=\"trend-line\""), "the trend");
-    assert!(page.contains("Estimate:"), "the projection is labelled an estimate");
+    assert!(
+        page.contains("Estimate:"),
+        "the projection is labelled an estimate"
+    );
     assert_eq!(page.matches("<circle").count(), 4, "one mark per test");
     assert!(page.contains("limit 5 mm"));
+    // The registry's cylinder page carries the same history.
+    let (status, _, registry) = app.get_page(&format!("/cylinders/{cylinder}")).await;
+    assert_eq!(status, StatusCode::OK);
+    assert!(
+        registry.contains("<svg class=\"chart\""),
+        "history on /cylinders/{{id}}"
+    );
+    assert!(registry.contains("Drift-test history"));
 }
 
 /// The dark modules of a QR path `M{x} {y}h1v1h-1z...`.
@@ -236,14 +280,24 @@ async fn a_label_carries_a_qr_code_of_the_record_page() {
     assert_eq!(status, StatusCode::OK);
     assert!(page.contains("HV-305"));
     assert!(page.contains("Bore 100 mm"), "{page}");
-    assert!(page.contains(&format!("/cylinders/{cylinder}</p>")), "the address in words");
+    assert!(
+        page.contains(&format!("/cylinders/{cylinder}</p>")),
+        "the address in words"
+    );
     assert!(page.contains("<svg class=\"qr-code\""));
-    let view = attribute(&page, "class=\"qr-code\" xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 ");
-    let size: usize = view.split(' ').next().and_then(|s| s.parse().ok()).expect("size");
+    let view = attribute(
+        &page,
+        "class=\"qr-code\" xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 ",
+    );
+    let size: usize = view
+        .split(' ')
+        .next()
+        .and_then(|s| s.parse().ok())
+        .expect("size");
     // ISO/IEC 18004: a version-v symbol is 17 + 4v modules wide; 4 modules of quiet zone on
     // each side.
     let side = size - 8;
-    assert!(side >= 21 && (side - 17) % 4 == 0, "side {side}");
+    assert!(side >= 21 && (side - 17).is_multiple_of(4), "side {side}");
     let path = attribute(&page, "<path d=\"");
     let dark = modules(&path);
     // ISO/IEC 18004 finder pattern in three corners: a dark 7x7 ring, a light ring, a dark
@@ -274,7 +328,11 @@ async fn the_shop_finds_a_unit_by_its_number() {
     let a = machine(&app, "HV-401").await;
     machine(&app, "HV-402").await;
     let (status, headers, _) = app.get_page("/shop?q=hv-401").await;
-    assert_eq!(status, StatusCode::SEE_OTHER, "an exact number opens the unit");
+    assert_eq!(
+        status,
+        StatusCode::SEE_OTHER,
+        "an exact number opens the unit"
+    );
     assert_eq!(location(&headers), format!("/shop/machines/{a}"));
     let (status, _, page) = app.get_page("/shop?q=HV-40").await;
     assert_eq!(status, StatusCode::OK);
@@ -289,7 +347,10 @@ async fn a_technician_records_a_test_signed_with_their_login_name() {
     let (_, cylinder) = loaded_cylinder(&admin, "HV-306").await;
     admin.add_user("tech1", Role::Technician).await;
     let mut tech = admin.client();
-    assert_eq!(tech.login("tech1", TEST_PASSWORD).await, StatusCode::SEE_OTHER);
+    assert_eq!(
+        tech.login("tech1", TEST_PASSWORD).await,
+        StatusCode::SEE_OTHER
+    );
     let form = format!("/shop/cylinders/{cylinder}/drift-test");
     let (status, _, page) = tech.get_page(&form).await;
     assert_eq!(status, StatusCode::OK);
@@ -297,7 +358,14 @@ async fn a_technician_records_a_test_signed_with_their_login_name() {
     let mut fields = drift_form(&token, "600");
     fields.retain(|(k, _)| *k != "technician");
     let (status, headers, _) = tech.post_form(&form, &fields).await;
-    assert_eq!(status, StatusCode::SEE_OTHER, "a technician may enter shop records");
+    assert_eq!(
+        status,
+        StatusCode::SEE_OTHER,
+        "a technician may enter shop records"
+    );
     let (_, _, shown) = tech.get_page(&location(&headers)).await;
-    assert!(shown.contains("Signed by <strong>tech1</strong>"), "{shown}");
+    assert!(
+        shown.contains("Signed by <strong>tech1</strong>"),
+        "{shown}"
+    );
 }

@@ -27,6 +27,8 @@ pub struct Browser {
     driver: Child,
     _profile: TempDir,
     shots: PathBuf,
+    /// Where Chromium saves downloads.
+    pub downloads: PathBuf,
     step: u32,
     _turn: MutexGuard<'static, ()>,
 }
@@ -51,10 +53,16 @@ impl Browser {
             .stderr(Stdio::null())
             .spawn()
             .expect("spawn chromedriver");
+        let downloads = shots.join("downloads");
+        std::fs::create_dir_all(&downloads).expect("download dir");
         let capabilities = json!({
             "browserName": "chrome",
             "goog:chromeOptions": {
                 "binary": chromium,
+                "prefs": {
+                    "download.default_directory": downloads,
+                    "download.prompt_for_download": false,
+                },
                 "args": [
                     "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic",
                     "--no-first-run", "--disable-background-networking",
@@ -88,6 +96,7 @@ impl Browser {
             client,
             driver,
             _profile: profile,
+            downloads,
             shots,
             step: 0,
             _turn: turn,
@@ -194,6 +203,39 @@ impl Browser {
             .await
             .map(|u| u.path().to_string())
             .unwrap_or_default()
+    }
+
+    /// Waits up to 10 s for the address to reach a path starting with `prefix`.
+    pub async fn wait_for_path(&self, prefix: &str) -> String {
+        let deadline = Instant::now() + Duration::from_secs(10);
+        loop {
+            let path = self.path().await;
+            if path.starts_with(prefix) {
+                return path;
+            }
+            assert!(Instant::now() < deadline, "still at {path}, expected {prefix}...");
+            tokio::time::sleep(Duration::from_millis(50)).await;
+        }
+    }
+
+    /// True when the page fits the viewport's width (no sideways scrolling).
+    pub async fn fits_width(&self) -> (bool, String) {
+        let sizes = self
+            .client
+            .execute(
+                "return [document.documentElement.scrollWidth, window.innerWidth];",
+                vec![],
+            )
+            .await
+            .expect("page width");
+        let fits = sizes[0].as_u64() <= sizes[1].as_u64();
+        (fits, sizes.to_string())
+    }
+
+    /// Types into a quantity input and picks its unit (`{name}_unit` beside it).
+    pub async fn quantity(&self, name: &str, number: &str, unit: &str) {
+        self.fill(&format!("#f-{name}"), number).await;
+        self.select(&format!("select[name='{name}_unit']"), unit).await;
     }
 
     /// Ends the session and chromedriver.

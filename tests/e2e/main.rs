@@ -4,7 +4,11 @@
 
 mod browser;
 mod crash;
+mod fixture;
+mod form_errors;
 mod http;
+mod manager;
 mod openapi;
 mod server;
 mod smoke;
+mod technician;

@@ -1,8 +1,8 @@
 //! The pressure-decay form: the cylinder driven to the end of its stroke, one end pressurised
 //! and blocked, the pressure read at start and end. Posts to `api::decay_tests::prepare`.
 
-use super::drift::{form_field, summary_lines};
 use super::form::{self, Field, Fields, new_client_token, now_local_input};
+use super::form::{form_field, summary_lines};
 use super::words::{ProcedureView, procedure_view};
 use super::{load_cylinder, redirect_to};
 use crate::api::decay_tests::{prepare, store};

@@ -3,6 +3,7 @@
 //! JSON object the API reads, and the client token that makes a resubmit store once.
 
 use crate::calc::quantity::{Dimension, UnitSystem, display_unit};
+use crate::error::AppError;
 use crate::pages::forms::Values;
 use crate::pages::view::FieldErrors;
 use serde_json::{Map, Value};
@@ -230,5 +231,41 @@ pub fn in_unit(si: Option<f64>, unit: &str, dimension: Dimension) -> String {
     match si.and_then(|v| crate::calc::quantity::from_si(v, unit, dimension).ok()) {
         Some(v) => crate::calc::quantity::significant(v, 6),
         None => String::new(),
+    }
+}
+
+/// The lines above a refused form (every error, by field label where known).
+pub fn summary_lines(errors: &FieldErrors) -> Vec<String> {
+    errors
+        .0
+        .iter()
+        .map(|(field, message)| {
+            if field.is_empty() {
+                message.clone()
+            } else {
+                format!("{}: {message}", field.replace('_', " "))
+            }
+        })
+        .collect()
+}
+
+/// Names the form's inputs in errors about the API's nested fields (`limit.per`).
+pub fn form_field(error: AppError) -> AppError {
+    match error {
+        AppError::Invalid {
+            status,
+            code,
+            field,
+            message,
+        } => AppError::Invalid {
+            status,
+            code,
+            field: field.map(|f| {
+                f.replace("limit.distance", "limit_distance")
+                    .replace("limit.per", "limit_per")
+            }),
+            message,
+        },
+        other => other,
     }
 }

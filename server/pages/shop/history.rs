@@ -7,7 +7,7 @@
 //! by [`history_panel`].
 
 use super::chart::{self, Chart, Sample};
-use super::words::{flags_words, when};
+use super::words::{flags_words, qd, when};
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::calc::trend::{self, Crossing, Projection};
 use crate::db::decay_tests::DecayTest;
@@ -160,16 +160,16 @@ fn projection_words(p: Option<&Projection>, units: UnitSystem) -> (String, bool)
 
 fn row(t: &DriftTest, units: UnitSystem) -> Row {
     let length = |si: f64| q(Some(si), Dimension::Length, units);
-    let per = q(Some(t.scaled_period_s), Dimension::Time, units);
+    let per = qd(Some(t.scaled_period_s), Dimension::Time, units);
     Row {
         id: t.id,
         tested_at: when(&t.tested_at),
         technician: t.technician.clone(),
-        scaled_drift: format!("{} per {per}", length(t.scaled_drift_m)),
-        leak_drift: format!("{} per {per}", length(t.scaled_leak_drift_m)),
+        scaled_drift: format!("{} / {per}", length(t.scaled_drift_m)),
+        leak_drift: format!("{} / {per}", length(t.scaled_leak_drift_m)),
         limit: match (t.limit_distance_m, t.limit_period_s) {
             (Some(d), Some(p)) => {
-                format!("{} per {}", length(d), q(Some(p), Dimension::Time, units))
+                format!("{} / {}", length(d), qd(Some(p), Dimension::Time, units))
             }
             _ => "—".into(),
         },
@@ -178,7 +178,7 @@ fn row(t: &DriftTest, units: UnitSystem) -> Row {
         flags: flags_words(&t.flag_list()),
         amends: t.amends_id,
         amended_by: t.amended_by_id,
-        entered: format!("{} at {}", t.created_by, when(&t.created_at)),
+        entered: format!("entered {} by {}", when(&t.created_at), t.created_by),
     }
 }
 
@@ -192,7 +192,7 @@ fn decay_row(t: &DecayTest, units: UnitSystem) -> DecayRow {
         verdict: t.verdict.clone(),
         diagnosis: t.diagnosis.clone(),
         amended_by: t.amended_by_id,
-        entered: format!("{} at {}", t.created_by, when(&t.created_at)),
+        entered: format!("entered {} by {}", when(&t.created_at), t.created_by),
     }
 }
 
@@ -228,7 +228,7 @@ pub fn panel(
         .map(|(_, period)| {
             format!(
                 "Leak drift: the measured drift less what the oil's temperature change explains, scaled to {}.",
-                q(Some(period), Dimension::Time, units)
+                qd(Some(period), Dimension::Time, units)
             )
         })
         .unwrap_or_default();

@@ -7,7 +7,7 @@ use crate::api::paging::pick_units;
 use crate::app::AppState;
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::pages::ctx::PageCtx;
-use crate::pages::machine_page::{direction_words, size_text};
+use crate::pages::machine_page::direction_words;
 use crate::pages::view::q;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -107,7 +107,6 @@ pub async fn cylinder(
     let units = pick_units(None, c.site_units.as_deref());
     let address = format!("{}/cylinders/{}", base_url(&headers), c.id);
     let mut lines = sizes(c.bore_m, c.rod_m, c.stroke_m, units);
-    lines.push(format!("({})", size_text(&c, units)));
     lines.push(format!("Load {}", direction_words(&c.load_direction)));
     if let Some(s) = &c.serial {
         lines.push(format!("Serial {s}"));

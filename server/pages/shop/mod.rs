@@ -18,10 +18,12 @@ pub mod chart;
 pub mod cylinder;
 pub mod decay;
 pub mod drift;
+pub mod drift_page;
 pub mod find;
 pub mod form;
 pub mod history;
 pub mod inspection;
+pub mod inspection_record;
 pub mod label;
 pub mod qr;
 pub mod record;
@@ -49,7 +51,7 @@ pub fn router() -> Router<AppState> {
         )
         .route("/shop/drift-tests/{id}", get(record::drift_test))
         .route("/shop/decay-tests/{id}", get(record::decay_test))
-        .route("/shop/inspections/{id}", get(inspection::record))
+        .route("/shop/inspections/{id}", get(inspection_record::show))
         .route("/machines/{id}/label", get(label::machine))
         .route("/cylinders/{id}/label", get(label::cylinder))
 }

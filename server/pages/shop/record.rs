@@ -3,7 +3,7 @@
 //! the records it amends or that amend it.
 
 use super::load_cylinder;
-use super::words::{diagnosis_words, flags_words, shown, texts, verdict_words, when};
+use super::words::{diagnosis_words, flags_words, qd, shown, texts, verdict_words, when};
 use crate::api::paging::{path_id, pick_units};
 use crate::app::AppState;
 use crate::calc::quantity::Dimension as D;
@@ -12,7 +12,6 @@ use crate::error::AppError;
 use crate::pages::ctx::PageCtx;
 use crate::pages::machine_page::size_text;
 use crate::pages::page_error;
-use crate::pages::view::q;
 use askama::Template;
 use askama_web::WebTemplate;
 use axum::extract::{Path, Query, State};
@@ -116,7 +115,7 @@ pub async fn drift_test(
     );
     figs.extend(limit_text(&a, "distance"));
     let opt =
-        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), qd(Some(v), d, units)));
     let readings: Vec<(String, String)> = [
         opt("Drift", t.drift_m, D::Length),
         opt("Start position", t.start_position_m, D::Length),
@@ -210,7 +209,7 @@ pub async fn decay_test(
     );
     figs.extend(limit_text(&a, "pressure"));
     let p =
-        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), q(Some(v), d, units)));
+        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), qd(Some(v), d, units)));
     let readings: Vec<(String, String)> = [
         Some((
             "Pressurised end".to_string(),

@@ -19,6 +19,27 @@ pub fn unit_words(unit: &str) -> String {
     unit.replace("deg", "°")
 }
 
+/// An SI value as a page shows it in `units`, temperatures with their degree sign and whole
+/// minutes or hours as such (`10 min`).
+pub fn qd(si: Option<f64>, dimension: Dimension, units: UnitSystem) -> String {
+    match (si, dimension) {
+        (Some(s), Dimension::Time) => duration_words(s),
+        _ => unit_words(&q(si, dimension, units)),
+    }
+}
+
+/// A duration in words: `10 min`, `2 h`, `45 s`.
+pub fn duration_words(s: f64) -> String {
+    let whole = |n: f64| n.fract() == 0.0;
+    if s >= 3600.0 && whole(s / 3600.0) {
+        format!("{} h", s / 3600.0)
+    } else if s >= 60.0 && whole(s / 60.0) {
+        format!("{} min", s / 60.0)
+    } else {
+        format!("{} s", significant(s, 4))
+    }
+}
+
 /// The texts of a list in a stored analysis.
 pub fn texts(v: &Value) -> Vec<String> {
     v.as_array()
@@ -76,14 +97,14 @@ pub struct ProcedureView {
 /// The limit amount of a procedure row as text: distance for drift, pressure for decay.
 fn amount(kind: &str, distance: Option<f64>, drop: Option<f64>, units: UnitSystem) -> String {
     if kind == "decay" {
-        q(drop, Dimension::Pressure, units)
+        qd(drop, Dimension::Pressure, units)
     } else {
-        q(distance, Dimension::Length, units)
+        qd(distance, Dimension::Length, units)
     }
 }
 
 pub fn procedure_view(p: &Procedure, units: UnitSystem, selected: bool) -> ProcedureView {
-    let t = |k: Option<f64>| q(k, Dimension::Temperature, units);
+    let t = |k: Option<f64>| qd(k, Dimension::Temperature, units);
     let window = match (p.oil_temperature_min_k, p.oil_temperature_max_k) {
         (Some(lo), Some(hi)) => format!("{} to {}", t(Some(lo)), t(Some(hi))),
         (Some(lo), None) => format!("at least {}", t(Some(lo))),
@@ -115,7 +136,7 @@ pub fn procedure_view(p: &Procedure, units: UnitSystem, selected: bool) -> Proce
         posture: p.posture.clone().unwrap_or_default(),
         measure_at: p.measure_at.clone().unwrap_or_default(),
         window,
-        duration: q(Some(p.duration_s), Dimension::Time, units),
+        duration: qd(Some(p.duration_s), Dimension::Time, units),
         limit,
         table: p
             .limits
@@ -125,7 +146,7 @@ pub fn procedure_view(p: &Procedure, units: UnitSystem, selected: bool) -> Proce
                     "From {}: {} in {}",
                     t(Some(r.oil_temperature_from_k)),
                     amount(&p.kind, r.limit_distance_m, r.limit_pressure_drop_pa, units),
-                    q(Some(r.limit_period_s), Dimension::Time, units)
+                    qd(Some(r.limit_period_s), Dimension::Time, units)
                 )
             })
             .collect(),

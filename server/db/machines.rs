@@ -281,6 +281,8 @@ pub async fn update(
     }
     sqlx::query(
         "UPDATE machines SET unit_number = ?, site_id = ?, kind = ?, description = ?, serial = ?,
+            out_of_service_inspection_id =
+                CASE WHEN status = ? THEN out_of_service_inspection_id ELSE NULL END,
             status = ?, out_of_service_reason = ?, out_of_service_since = ?,
             relief_pressure_pa = ?, hour_meter_h = ?, hour_meter_read_on = ?,
             periodic_interval_days = ?, periodic_interval_hours = ?, frequent_interval_days = ?,
@@ -292,6 +294,8 @@ pub async fn update(
     .bind(&f.kind)
     .bind(&f.description)
     .bind(&f.serial)
+    // A status set by hand no longer points at the inspection that set the old one.
+    .bind(&f.status)
     .bind(&f.status)
     .bind(&f.out_of_service_reason)
     .bind(&f.out_of_service_since)

@@ -1,151 +1,43 @@
-//! Crash safety: several clients write through real HTTP, the server is SIGKILLed in the
-//! middle, and every acknowledged (2xx) record must be there after a restart on the same
-//! file, with `PRAGMA integrity_check` = ok. The same for `loadhold backup` under write load.
+//! Crash safety: several clients write machines and drift tests through real HTTP, the server
+//! is SIGKILLed in the middle, and every acknowledged (2xx) record must be there after a
+//! restart on the same file, with `PRAGMA integrity_check` = ok.
 
 use crate::http::Http;
-use crate::server::{Server, TempDir, artifacts, cli, create_token, migrate};
+use crate::server::{Server, TempDir, artifacts, create_token, migrate};
+use crate::writers::{
+    Kind, assert_prefixes, check_acknowledged, integrity_check, spawn, stored_keys, wait_for_acks,
+};
 use serde_json::json;
-use sqlx::sqlite::SqliteConnectOptions;
-use sqlx::{ConnectOptions, Connection};
-use std::collections::{BTreeMap, BTreeSet};
-use std::path::Path;
-use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::atomic::AtomicBool;
 use std::sync::{Arc, Mutex};
-use std::time::{Duration, Instant};
 
-const CLIENTS: usize = 6;
-
-/// A record the server acknowledged with 2xx.
-#[derive(Clone, Debug)]
-struct Ack {
-    id: i64,
-    unit_number: String,
-}
-
-/// What the writers saw: acknowledgements, and any answer that was neither 2xx nor a
-/// dropped connection (those are bugs: a busy database must not surface as an error).
-#[derive(Default)]
-struct Ledger {
-    acks: Vec<Ack>,
-    unexpected: Vec<String>,
-}
-
-fn unit_number(writer: &str, seq: usize) -> String {
-    format!("CRASH-{writer}-{seq:05}")
-}
-
-/// One client: posts machines one after another until told to stop or the server is gone.
-async fn writer(http: Http, name: String, ledger: Arc<Mutex<Ledger>>, stop: Arc<AtomicBool>) {
-    for seq in 0.. {
-        if stop.load(Ordering::SeqCst) {
-            return;
-        }
-        let unit = unit_number(&name, seq);
-        let body = json!({
-            "unit_number": unit,
-            "kind": "scissor lift",
-            "description": "crash-safety writer (test data)",
-        });
-        match http.post_json("/api/v1/machines", &body).await {
-            Ok(reply) if (200..300).contains(&reply.status) => {
-                let id = reply.json()["id"].as_i64();
-                let mut ledger = ledger.lock().expect("ledger");
-                match id {
-                    Some(id) => ledger.acks.push(Ack {
-                        id,
-                        unit_number: unit,
-                    }),
-                    None => ledger
-                        .unexpected
-                        .push(format!("2xx without an id: {}", reply.text())),
-                }
-            }
-            Ok(reply) => {
-                ledger
-                    .lock()
-                    .expect("ledger")
-                    .unexpected
-                    .push(format!("{} for {unit}: {}", reply.status, reply.text()));
-                return;
-            }
-            // The server is gone (killed mid-request): this client stops.
-            Err(_) => return,
-        }
-    }
-}
-
-fn ack_count(ledger: &Arc<Mutex<Ledger>>) -> usize {
-    ledger.lock().expect("ledger").acks.len()
-}
-
-async fn wait_for_acks(ledger: &Arc<Mutex<Ledger>>, at_least: usize, server: &Server) {
-    let deadline = Instant::now() + Duration::from_secs(120);
-    while ack_count(ledger) < at_least {
-        let unexpected = ledger.lock().expect("ledger").unexpected.clone();
-        assert!(
-            unexpected.is_empty(),
-            "writes failed: {unexpected:?}\n{}",
-            server.log_tail()
-        );
-        assert!(
-            Instant::now() < deadline,
-            "only {} acknowledged writes in 120 s\n{}",
-            ack_count(ledger),
-            server.log_tail()
-        );
-        tokio::time::sleep(Duration::from_millis(2)).await;
-    }
-}
-
-/// Opens a SQLite file read-only and returns `PRAGMA integrity_check`'s rows.
-async fn integrity_check(path: &Path) -> Vec<String> {
-    let mut conn = SqliteConnectOptions::new()
-        .filename(path)
-        .read_only(true)
-        .connect()
+/// A machine with one cylinder to hold drift tests; returns the cylinder's id.
+pub async fn test_cylinder(http: &Http) -> i64 {
+    let machine = http
+        .post_json(
+            "/api/v1/machines",
+            &json!({"unit_number": "CRASH-RIG", "kind": "boom lift"}),
+        )
         .await
-        .unwrap_or_else(|e| panic!("open {}: {e}", path.display()));
-    let rows: Vec<String> = sqlx::query_scalar("PRAGMA integrity_check")
-        .fetch_all(&mut conn)
+        .expect("machine");
+    assert_eq!(machine.status, 201, "{}", machine.text());
+    let cylinder = http
+        .post_json(
+            "/api/v1/cylinders",
+            &json!({"machine_id": machine.json()["id"], "function": "Boom lift (test data)",
+                    "bore": "100 mm", "rod": "56 mm", "stroke": "900 mm",
+                    "load_direction": "retract", "max_load": "40 kN"}),
+        )
         .await
-        .expect("integrity_check");
-    let _ = conn.close().await;
-    rows
+        .expect("cylinder");
+    assert_eq!(cylinder.status, 201, "{}", cylinder.text());
+    cylinder.json()["id"].as_i64().expect("cylinder id")
 }
 
-/// The crash-test unit numbers stored in a SQLite file.
-async fn stored_units(path: &Path) -> BTreeSet<String> {
-    let mut conn = SqliteConnectOptions::new()
-        .filename(path)
-        .read_only(true)
-        .connect()
-        .await
-        .unwrap_or_else(|e| panic!("open {}: {e}", path.display()));
-    let rows: Vec<String> =
-        sqlx::query_scalar("SELECT unit_number FROM machines WHERE unit_number LIKE 'CRASH-%'")
-            .fetch_all(&mut conn)
-            .await
-            .expect("read machines");
-    let _ = conn.close().await;
-    rows.into_iter().collect()
-}
-
-fn spawn_writers(
-    round: usize,
-    http: &Http,
-    ledger: &Arc<Mutex<Ledger>>,
-    stop: &Arc<AtomicBool>,
-) -> Vec<tokio::task::JoinHandle<()>> {
-    (0..CLIENTS)
-        .map(|client| {
-            tokio::spawn(writer(
-                http.clone(),
-                format!("r{round}c{client}"),
-                ledger.clone(),
-                stop.clone(),
-            ))
-        })
-        .collect()
+/// Three machine writers and three drift-test writers.
+pub fn mixed(cylinder_id: i64) -> Vec<Kind> {
+    let drift = Kind::DriftTest { cylinder_id };
+    vec![Kind::Machine, drift, Kind::Machine, drift, Kind::Machine, drift]
 }
 
 /// How many acknowledgements to wait for before the kill: varies from round to round so the
@@ -159,25 +51,28 @@ fn kill_after(round: usize) -> usize {
 }
 
 #[tokio::test(flavor = "multi_thread", worker_threads = 2)]
-async fn every_acknowledged_machine_survives_a_sigkill_mid_write() {
+async fn every_acknowledged_record_survives_sigkills_mid_write() {
     let dir = TempDir::new("crash");
     let out = artifacts("crash_sigkill");
     let db = dir.path().join("fleet.sqlite");
     migrate(&db);
     let token = create_token(&db, "crash writers", "manager");
-    let mut acked: Vec<Ack> = Vec::new();
-    let mut in_flight_kept = 0;
-    // Three crashes on the same file, each one with writers busy.
+    let mut acked = Vec::new();
+    let mut unanswered_kept = 0;
+    let mut kinds = Vec::new();
+    // Three crashes on the same file, each with six writers busy.
     for round in 0..3 {
-        let log = out.join(format!("server-{round}.log"));
-        let mut server = Server::start(&db, &log).await;
-        if round > 0 {
-            check_acknowledged(&server.http().with_bearer(&token), &acked, round).await;
+        let mut server = Server::start(&db, &out.join(format!("server-{round}.log"))).await;
+        let http = server.http().with_bearer(&token);
+        if round == 0 {
+            kinds = mixed(test_cylinder(&http).await);
+        } else {
+            check_acknowledged(&http, &acked, &format!("restart {round}")).await;
         }
-        let ledger = Arc::new(Mutex::new(Ledger::default()));
+        let ledger = Arc::new(Mutex::new(Default::default()));
         let stop = Arc::new(AtomicBool::new(false));
-        let writers = spawn_writers(round, &server.http().with_bearer(&token), &ledger, &stop);
-        wait_for_acks(&ledger, kill_after(round), &server).await;
+        let writers = spawn(&format!("r{round}"), &kinds, &http, &ledger, &stop);
+        wait_for_acks(&ledger, kill_after(round), || server.log_tail()).await;
         server.kill();
         for writer in writers {
             writer.await.expect("writer task");
@@ -188,137 +83,33 @@ async fn every_acknowledged_machine_survives_a_sigkill_mid_write() {
             "non-2xx answers before the kill: {:?}",
             ledger.unexpected
         );
+        assert!(
+            ledger.acks.iter().any(|a| matches!(a.kind, Kind::DriftTest { .. }))
+                && ledger.acks.iter().any(|a| matches!(a.kind, Kind::Machine)),
+            "both kinds of record were written in round {round}"
+        );
         acked.extend(ledger.acks);
-        // The file is sound right after the kill, holds every acknowledged record, and each
-        // writer's records are a gap-free prefix of what it sent (a writer sends its next
-        // record only once the previous one was answered).
+        // Right after the kill the file is sound, holds every acknowledged record, and each
+        // writer's records are a gap-free prefix of what it sent.
         assert_eq!(integrity_check(&db).await, vec!["ok".to_string()], "round {round}");
-        let stored = stored_units(&db).await;
+        let stored = stored_keys(&db).await;
         for ack in &acked {
             assert!(
-                stored.contains(&ack.unit_number),
+                stored.contains(&ack.key),
                 "round {round}: acknowledged {} is not in the file",
-                ack.unit_number
+                ack.key
             );
         }
         assert_prefixes(&stored, &format!("after crash {round}"));
-        in_flight_kept += stored.len() - acked.len();
+        unanswered_kept = stored.len() - acked.len();
     }
-    // Restart once more: every acknowledged record reads back through the API.
     let server = Server::start(&db, &out.join("server-final.log")).await;
-    check_acknowledged(&server.http().with_bearer(&token), &acked, 3).await;
+    check_acknowledged(&server.http().with_bearer(&token), &acked, "final restart").await;
     eprintln!(
-        "crash: {} acknowledged machines over 3 SIGKILLs all kept; {in_flight_kept} unanswered \
-         in-flight writes were also committed",
+        "crash: {} acknowledged records over 3 SIGKILLs all kept; {unanswered_kept} writes in \
+         flight at the kills were committed without an answer",
         acked.len()
     );
-}
-
-/// Every acknowledged machine answers `GET /api/v1/machines/{id}` with its unit number.
-async fn check_acknowledged(http: &Http, acked: &[Ack], round: usize) {
-    let mut missing = Vec::new();
-    for ack in acked {
-        let reply = http
-            .get(&format!("/api/v1/machines/{}", ack.id))
-            .await
-            .expect("GET after restart");
-        if reply.status != 200 || reply.json()["unit_number"] != ack.unit_number.as_str() {
-            missing.push(format!("{} (id {}): {}", ack.unit_number, ack.id, reply.status));
-        }
-    }
-    assert!(
-        missing.is_empty(),
-        "after restart {round}: {} of {} acknowledged machines lost: {missing:?}",
-        missing.len(),
-        acked.len()
-    );
-}
-
-/// Every client's stored records are 0..n with no gap.
-fn assert_prefixes(stored: &BTreeSet<String>, when: &str) {
-    let mut by_writer: BTreeMap<&str, Vec<usize>> = BTreeMap::new();
-    for unit in stored {
-        let mut parts = unit.trim_start_matches("CRASH-").split('-');
-        let writer = parts.next().expect("writer");
-        let seq = parts.next().and_then(|s| s.parse().ok()).expect("seq");
-        by_writer.entry(writer).or_default().push(seq);
-    }
-    for (writer, mut seqs) in by_writer {
-        seqs.sort_unstable();
-        let expected: Vec<usize> = (0..seqs.len()).collect();
-        assert_eq!(seqs, expected, "writer {writer}'s records {when} have a gap");
-    }
-}
-
-#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
-async fn a_backup_taken_under_write_load_is_sound_and_holds_a_consistent_prefix() {
-    let dir = TempDir::new("backup");
-    let out = artifacts("crash_backup");
-    let db = dir.path().join("fleet.sqlite");
-    migrate(&db);
-    let token = create_token(&db, "crash writers", "manager");
-    let server = Server::start(&db, &out.join("server.log")).await;
-    let http = server.http().with_bearer(&token);
-    let ledger = Arc::new(Mutex::new(Ledger::default()));
-    let stop = Arc::new(AtomicBool::new(false));
-    let writers = spawn_writers(0, &http, &ledger, &stop);
-
-    let mut checked = 0;
-    for round in 0..3 {
-        wait_for_acks(&ledger, 40 * (round + 1), &server).await;
-        // Everything acknowledged before the backup starts must be in the copy.
-        let before: Vec<Ack> = ledger.lock().expect("ledger").acks.clone();
-        let copy = dir.path().join(format!("backup-{round}.sqlite"));
-        let (db_arg, copy_arg) = (db.display().to_string(), copy.display().to_string());
-        let (ok, stdout, stderr) = tokio::task::spawn_blocking(move || {
-            cli(&["backup", "--db", &db_arg, &copy_arg], None)
-        })
-        .await
-        .expect("backup task");
-        assert!(ok, "loadhold backup failed: {stdout}{stderr}");
-        let after = ack_count(&ledger);
-        assert!(
-            after > before.len(),
-            "the writers should still be writing while the backup runs"
-        );
-
-        assert_eq!(
-            integrity_check(&copy).await,
-            vec!["ok".to_string()],
-            "backup {round}"
-        );
-        let stored = stored_units(&copy).await;
-        for ack in &before {
-            assert!(
-                stored.contains(&ack.unit_number),
-                "backup {round} lacks {} acknowledged before it began",
-                ack.unit_number
-            );
-        }
-        assert_prefixes(&stored, &format!("in backup {round}"));
-        checked += 1;
-    }
-    stop.store(true, Ordering::SeqCst);
-    for writer in writers {
-        writer.await.expect("writer task");
-    }
-    let unexpected = ledger.lock().expect("ledger").unexpected.clone();
-    assert!(unexpected.is_empty(), "non-2xx answers under load: {unexpected:?}");
-    assert_eq!(checked, 3);
-
-    // A second backup to an existing file name is refused rather than overwriting it.
-    let existing = dir.path().join("backup-0.sqlite");
-    let (ok, _, _) = cli(
-        &[
-            "backup",
-            "--db",
-            &db.display().to_string(),
-            &existing.display().to_string(),
-        ],
-        None,
-    );
-    assert!(!ok, "backup over an existing file must fail");
-    drop(server);
 }
 
 #[tokio::test]
@@ -338,7 +129,7 @@ async fn the_storage_layer_commits_with_a_full_fsync_in_wal_mode() {
         .await
         .expect("journal_mode");
     pool.close().await;
-    // SQLite documents synchronous values 0 OFF, 1 NORMAL, 2 FULL, 3 EXTRA (sqlite.org/pragma.html).
+    // SQLite's values: 0 OFF, 1 NORMAL, 2 FULL, 3 EXTRA (sqlite.org/pragma.html#pragma_synchronous).
     assert!(synchronous >= 2, "PRAGMA synchronous = {synchronous}, want FULL (2) or EXTRA (3)");
     assert_eq!(journal, "wal");
 }
@@ -346,7 +137,7 @@ async fn the_storage_layer_commits_with_a_full_fsync_in_wal_mode() {
 #[tokio::test(flavor = "multi_thread", worker_threads = 2)]
 async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error() {
     // A read-then-write transaction that starts as a reader must not fail with "database is
-    // locked" when another writer commits first: each edit waits its turn instead.
+    // locked" when another writer commits first: each edit must wait its turn instead.
     let dir = TempDir::new("edits");
     let out = artifacts("crash_concurrent_edits");
     let db = dir.path().join("fleet.sqlite");
@@ -361,7 +152,7 @@ async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error
     assert_eq!(made.status, 201, "{}", made.text());
     let id = made.json()["id"].as_i64().expect("id");
     let mut editors = Vec::new();
-    for client in 0..CLIENTS {
+    for client in 0..6 {
         let http = http.clone();
         editors.push(tokio::spawn(async move {
             let mut answers = Vec::new();
@@ -391,9 +182,8 @@ async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error
     }
     assert!(
         failed.is_empty(),
-        "{} of {} concurrent edits failed, e.g. {:?}\n{}",
+        "{} of 150 concurrent edits failed, e.g. {:?}\n{}",
         failed.len(),
-        CLIENTS * 25,
         failed.first(),
         server.log_tail()
     );

@@ -2,6 +2,7 @@
 //! driven through real sockets and a real headless Chromium. Screenshots of every browser
 //! step and the server logs are kept under `target/e2e-artifacts/<test>/`.
 
+mod backup;
 mod browser;
 mod crash;
 mod fixture;
@@ -12,3 +13,4 @@ mod openapi;
 mod server;
 mod smoke;
 mod technician;
+mod writers;

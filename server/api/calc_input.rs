@@ -139,6 +139,7 @@ pub fn parse_cylinder_request(f: &Fields) -> Result<CylinderInput, AppError> {
     }
     input.pilot_ratio = f.opt_number("pilot_ratio")?;
     input.buckling = RodBuckling {
+        checked: true,
         end_condition: match f.opt_choice("end_condition", &EndCondition::NAMES)? {
             Some(name) => EndCondition::parse(name).unwrap_or(EndCondition::PinnedPinned),
             None => EndCondition::PinnedPinned,

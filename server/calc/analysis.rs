@@ -202,6 +202,9 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
 }
 
 fn buckling(input: &CylinderInput) -> Option<Buckling> {
+    if !input.buckling.checked {
+        return None;
+    }
     let c = &input.cylinder;
     let held = match input.load_direction {
         LoadDirection::Retract => input.load,

@@ -11,6 +11,9 @@ use serde::Serialize;
 /// Rod buckling inputs.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct RodBuckling {
+    /// False skips the check: where the mounting is not known, the default end condition is a
+    /// guess and a guessed alarm teaches people to ignore the real ones.
+    pub checked: bool,
     pub end_condition: EndCondition,
     /// Free length at full extension, m; `None` takes twice the stroke (see [`analyse`]).
     pub length: Option<f64>,
@@ -72,6 +75,7 @@ impl CylinderInput {
             tube_yield: None,
             tube_safety_factor: strength::DEFAULT_TUBE_SAFETY_FACTOR,
             buckling: RodBuckling {
+                checked: true,
                 end_condition: EndCondition::PinnedPinned,
                 length: None,
                 safety_factor: strength::DEFAULT_BUCKLING_SAFETY_FACTOR,

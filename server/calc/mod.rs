@@ -19,6 +19,7 @@ pub mod due;
 pub mod error;
 pub mod fluid;
 pub mod hazard_words;
+pub mod installed;
 pub mod ratings;
 pub mod strength;
 pub mod trend;

@@ -70,12 +70,7 @@ impl Hose {
 
     /// Where the hose is fitted, for tables: `cap port`, `rod port` or the circuit's name.
     pub fn place(&self) -> String {
-        match (&self.port, &self.circuit) {
-            (Some(port), Some(circuit)) => format!("{port} port ({circuit})"),
-            (Some(port), None) => format!("{port} port"),
-            (None, Some(circuit)) => circuit.clone(),
-            (None, None) => "—".into(),
-        }
+        crate::calc::installed::place(self.port.as_deref(), self.circuit.as_deref())
     }
 }
 

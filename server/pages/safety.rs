@@ -3,81 +3,56 @@
 //! for the page. No formulas here: every figure comes from `calc::analysis::analyse`.
 
 use crate::calc::analysis::{self, CylinderInput, CylinderReport};
-use crate::calc::bypass::{Outcome, TubeWall};
-use crate::calc::cylinder::{Cylinder as Geometry, End, LoadDirection};
+use crate::calc::bypass::Outcome;
+use crate::calc::installed::{self, Installed, LoadSource, RatedLine};
 use crate::calc::quantity::{Dimension, UnitSystem};
-use crate::calc::ratings::{Exposure, Rating, Status};
-use crate::calc::strength::EndCondition;
+use crate::calc::ratings::Status;
 use crate::db::cylinders::Cylinder;
 use crate::db::hoses::Hose;
 use crate::pages::view::q;
 
-/// Where the load figure came from.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum LoadSource {
-    Recorded,
-    FromHoldingPressure,
-    Unknown,
-}
-
-/// The held load used by the panel, N, and where it came from: the recorded highest load,
-/// else the recorded holding pressure times the holding end's area, else none.
-pub fn held_load(c: &Cylinder, geometry: &Geometry) -> (f64, LoadSource) {
-    let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
-    match (c.max_load_n, c.holding_pressure_pa) {
-        (Some(load), _) => (load, LoadSource::Recorded),
-        (None, Some(p)) => (
-            p * geometry.area(direction.holding_end()),
-            LoadSource::FromHoldingPressure,
-        ),
-        (None, None) => (0.0, LoadSource::Unknown),
+/// What the registry stores of a cylinder and its machine, as the core's installed cylinder.
+pub fn installed(c: &Cylinder) -> Installed {
+    Installed {
+        bore: c.bore_m,
+        rod: c.rod_m,
+        stroke: c.stroke_m,
+        load_direction: c.load_direction.clone(),
+        max_load: c.max_load_n,
+        holding_pressure: c.holding_pressure_pa,
+        relief_pressure: c.machine_relief_pressure_pa,
+        rated_pressure: c.rated_pressure_pa,
+        tube_outside_diameter: c.tube_outside_diameter_m,
+        tube_yield: c.tube_yield_pa,
+        end_condition: c.end_condition.clone(),
     }
 }
 
-/// A hose's name in the panel: `H17 (cap port, SAE 100R2AT -8)`.
+/// A hose's name in the panel: `H17 (cap port, SAE 100R2AT, -8)`.
 pub fn hose_label(h: &Hose) -> String {
-    let mut parts = vec![h.place()];
-    if let Some(spec) = &h.spec {
-        parts.push(spec.clone());
-    }
-    if let Some(size) = &h.size {
-        parts.push(size.clone());
-    }
-    format!("H{} ({})", h.id, parts.join(", "))
+    installed::line_label(h.id, &h.place(), h.spec.as_deref(), h.size.as_deref())
 }
 
-/// The engineering core's input for a registry cylinder: geometry, held load, the machine's
-/// relief setting as supply pressure, tube wall and yield, rod end condition, and ratings
-/// (the cylinder's on both ends; each rated hose fitted to it on its port's end).
-pub fn input(c: &Cylinder, hoses: &[&Hose]) -> Result<(CylinderInput, LoadSource), String> {
-    let geometry = Geometry::new(c.bore_m, c.rod_m, c.stroke_m).map_err(|e| e.message)?;
-    let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
-    let (load, source) = held_load(c, &geometry);
-    let mut input = CylinderInput::new(geometry, load, direction);
-    input.supply_pressure = c.machine_relief_pressure_pa;
-    input.trapped.tube = c.tube_outside_diameter_m.map(TubeWall::steel);
-    input.tube_yield = c.tube_outside_diameter_m.and(c.tube_yield_pa);
-    if let Some(condition) = c.end_condition.as_deref().and_then(EndCondition::parse) {
-        input.buckling.end_condition = condition;
-    }
-    if let Some(rating) = c.rated_pressure_pa {
-        input.ratings.push(Rating {
-            component: "cylinder".into(),
-            exposure: Exposure::Both,
-            rating,
-        });
-    }
-    for hose in hoses {
-        if let (Some(rating), Some(port)) = (hose.working_pressure_pa, hose.port.as_deref()) {
-            let end = if port == "rod" { End::Rod } else { End::Cap };
-            input.ratings.push(Rating {
-                component: hose_label(hose),
-                exposure: Exposure::from(end),
+/// The rated hoses fitted to a port of the cylinder.
+pub fn rated_lines(hoses: &[&Hose]) -> Vec<RatedLine> {
+    hoses
+        .iter()
+        .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
+            (Some(rating), Some(port)) => Some(RatedLine {
+                label: hose_label(h),
+                port: port.to_string(),
                 rating,
-            });
-        }
-    }
-    Ok((input, source))
+            }),
+            _ => None,
+        })
+        .collect()
+}
+
+/// The engineering core's input for a registry cylinder ([`Installed::input`]).
+pub fn input(c: &Cylinder, hoses: &[&Hose]) -> Result<(CylinderInput, LoadSource), String> {
+    installed(c)
+        .input(&rated_lines(hoses))
+        .map_err(|e| e.message)
 }
 
 /// One cell of the ratings table: the pressure a scenario puts on a component, and its status.
@@ -135,28 +110,17 @@ fn worst(report: &CylinderReport) -> Status {
     }
 }
 
-/// Runs the engineering core for a registry cylinder. Rod buckling is kept only when the
-/// cylinder's mounting (end condition) is recorded: without it the core's default (pinned at
-/// both ends, free length twice the stroke) is a guess, and a guessed alarm on every long
-/// cylinder would teach people to ignore the real ones.
+/// Runs the engineering core for a registry cylinder. Rod buckling is checked only when the
+/// cylinder's mounting (end condition) is recorded ([`Installed::input`]).
 pub fn analyse(
     c: &Cylinder,
     hoses: &[&Hose],
     units: UnitSystem,
 ) -> Result<(CylinderInput, LoadSource, CylinderReport), String> {
     let (input, source) = input(c, hoses)?;
-    let mut report =
+    let report =
         analysis::analyse(&input, units).map_err(|e| format!("{}: {}", e.field, e.message))?;
-    if c.end_condition.is_none() && report.buckling.take().is_some() {
-        let words = buckling_hazard_start();
-        report.hazards.retain(|h| !h.starts_with(words));
-    }
     Ok((input, source, report))
-}
-
-/// How the core's buckling hazard sentence begins (see `calc::analysis`).
-fn buckling_hazard_start() -> &'static str {
-    "Rod: the compressive load"
 }
 
 /// The worst status of a cylinder's checks (`ok`, `low_margin`, `exceeds`), or `unknown` when

@@ -7,10 +7,10 @@
 use super::hoses::{self, HoseAge, HoseRow, HoseScope};
 use super::{FleetFilter, day_of};
 use crate::calc::analysis::{self, CylinderInput, ROD_SIDE_INTENSIFICATION, SEAL_BYPASS};
-use crate::calc::cylinder::{Cylinder, End, LoadDirection};
 use crate::calc::due::add_days;
+use crate::calc::installed::{self, Installed, RatedLine};
 use crate::calc::quantity::UnitSystem;
-use crate::calc::ratings::{Exposure, Rating, Status};
+use crate::calc::ratings::{Exposure, Status};
 use crate::calc::trend::{self, Crossing, Sample};
 use crate::db::Db;
 use serde::Serialize;
@@ -94,13 +94,17 @@ struct CylinderRow {
     holding_pressure_pa: Option<f64>,
     rated_pressure_pa: Option<f64>,
     relief_pressure_pa: Option<f64>,
+    tube_outside_diameter_m: Option<f64>,
+    tube_yield_pa: Option<f64>,
+    end_condition: Option<String>,
 }
 
 async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>, sqlx::Error> {
     sqlx::query_as::<_, CylinderRow>(
         "SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name, c.function,
             c.bore_m, c.rod_m, c.stroke_m, c.load_direction, c.max_load_n,
-            c.holding_pressure_pa, c.rated_pressure_pa, m.relief_pressure_pa
+            c.holding_pressure_pa, c.rated_pressure_pa, m.relief_pressure_pa,
+            c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition
          FROM cylinders c
          JOIN machines m ON m.id = c.machine_id
          LEFT JOIN sites s ON s.id = m.site_id
@@ -122,46 +126,38 @@ async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>
 
 /// A hose's name among a cylinder's ratings, as the cylinder page's safety panel writes it.
 fn hose_label(h: &HoseRow) -> String {
-    let mut parts: Vec<String> = h.port.iter().map(|p| format!("{p} port")).collect();
-    parts.extend(h.spec.clone());
-    parts.extend(h.size.clone());
-    format!("H{} ({})", h.id, parts.join(", "))
+    let place = installed::place(h.port.as_deref(), h.circuit.as_deref());
+    installed::line_label(h.id, &place, h.spec.as_deref(), h.size.as_deref())
 }
 
-/// The core's input for the ratings check, as the cylinder page builds it: the recorded
-/// highest load, else the holding pressure times the holding end's area; the machine's relief
-/// setting as supply pressure; the cylinder's rating on both ends, each rated hose on its
-/// port's end. `None` when the geometry cannot be used.
+/// The core's input for the ratings check, built as the cylinder page builds it
+/// ([`Installed::input`]). `None` when the geometry cannot be used.
 fn input(c: &CylinderRow, hoses: &[&HoseRow]) -> Option<CylinderInput> {
-    let geometry = Cylinder::new(c.bore_m, c.rod_m, c.stroke_m).ok()?;
-    let direction = LoadDirection::parse(&c.load_direction)?;
-    let load = c
-        .max_load_n
-        .or_else(|| {
-            c.holding_pressure_pa
-                .map(|p| p * geometry.area(direction.holding_end()))
-        })
-        .unwrap_or(0.0);
-    let mut input = CylinderInput::new(geometry, load, direction);
-    input.supply_pressure = c.relief_pressure_pa;
-    if let Some(rating) = c.rated_pressure_pa {
-        input.ratings.push(Rating {
-            component: "cylinder".into(),
-            exposure: Exposure::Both,
-            rating,
-        });
-    }
-    for h in hoses {
-        if let (Some(rating), Some(port)) = (h.working_pressure_pa, h.port.as_deref()) {
-            let end = if port == "rod" { End::Rod } else { End::Cap };
-            input.ratings.push(Rating {
-                component: hose_label(h),
-                exposure: Exposure::from(end),
+    let cylinder = Installed {
+        bore: c.bore_m,
+        rod: c.rod_m,
+        stroke: c.stroke_m,
+        load_direction: c.load_direction.clone(),
+        max_load: c.max_load_n,
+        holding_pressure: c.holding_pressure_pa,
+        relief_pressure: c.relief_pressure_pa,
+        rated_pressure: c.rated_pressure_pa,
+        tube_outside_diameter: c.tube_outside_diameter_m,
+        tube_yield: c.tube_yield_pa,
+        end_condition: c.end_condition.clone(),
+    };
+    let lines: Vec<RatedLine> = hoses
+        .iter()
+        .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
+            (Some(rating), Some(port)) => Some(RatedLine {
+                label: hose_label(h),
+                port: port.to_string(),
                 rating,
-            });
-        }
-    }
-    Some(input)
+            }),
+            _ => None,
+        })
+        .collect();
+    cylinder.input(&lines).ok().map(|(input, _)| input)
 }
 
 fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> {

@@ -113,7 +113,7 @@ fetch "http://127.0.0.1:$PORT/api/v1/openapi.json" "$ARTIFACTS/openapi.json" \
 set +e
 "$VENV/bin/schemathesis" --config-file "$ROOT/tests/schemathesis.toml" run "http://127.0.0.1:$PORT/api/v1/openapi.json" \
     --checks all --exclude-checks use_after_free \
-    --max-time "$SCHEMATHESIS_TIME" --seed 7 --workers 1 \
+    --max-time "$SCHEMATHESIS_TIME" --seed 7 --workers 2 \
     --report junit --report-dir "$ARTIFACTS/schemathesis" "${HEADERS[@]}"
 SCHEMA_STATUS=$?
 set -e

@@ -2,18 +2,19 @@
 
 use super::cylinder_draft::{self, Draft};
 use super::draft::first;
-use super::input::{Body, Fields};
-use super::paging::{Params, page_json, path_id, pick_units, shown};
+use super::input::Body;
+use super::paging::{Params, page_json, pick_units, shown};
+use super::registry::{asked_units, missing, path_and_units, refuse_new_archived};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::db::cylinders::{self as store, Cylinder, CylinderFilter};
-use crate::error::{ApiResult, AppError};
+use crate::error::ApiResult;
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
 use axum::routing::{get, post};
 use axum::{Json, Router};
-use serde_json::{Map, Value, json};
+use serde_json::{Value, json};
 
 pub fn router() -> Router<AppState> {
     Router::new()
@@ -60,13 +61,6 @@ pub fn reply(c: &Cylinder, asked: Option<UnitSystem>) -> Value {
     to_json(c, pick_units(asked, c.site_units.as_deref()))
 }
 
-fn asked_units(params: &Params, body: &Map<String, Value>) -> ApiResult<Option<UnitSystem>> {
-    if body.get("units").is_some_and(|v| !v.is_null()) {
-        return Ok(Some(Fields::new(body).units()?));
-    }
-    params.units()
-}
-
 async fn create(
     State(state): State<AppState>,
     actor: Actor,
@@ -74,16 +68,10 @@ async fn create(
     Body(body): Body,
 ) -> ApiResult<(StatusCode, Json<Value>)> {
     params.deny_unknown(&["units"])?;
-    let asked = asked_units(&params, &body)?;
+    let asked = asked_units(&params, Some(&body))?;
     let (fields, archived) = cylinder_draft::read(&body, Draft::default()).map_err(first)?;
-    if archived == Some(true) {
-        return Err(AppError::field(
-            "archived",
-            "invalid",
-            "a new cylinder cannot be archived",
-        ));
-    }
-    let mut tx = state.db.begin().await?;
+    refuse_new_archived(archived, "cylinder")?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let cylinder = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(reply(&cylinder, asked))))
@@ -110,12 +98,10 @@ async fn show(
     Path(id): Path<String>,
     params: Params,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "cylinder")?;
-    let asked = params.units()?;
+    let (id, asked) = path_and_units(&params, &id, "cylinder", None)?;
     let cylinder = store::find(&state.db, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
+        .ok_or_else(|| missing("cylinder", id))?;
     let mut body = reply(&cylinder, asked);
     body["due"] = super::reports::cylinder_due(&state, cylinder.id).await?; // reports
     Ok(Json(body))
@@ -128,13 +114,11 @@ async fn update(
     params: Params,
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "cylinder")?;
-    let asked = asked_units(&params, &body)?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "cylinder", Some(&body))?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let before = store::get(&mut tx, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
+        .ok_or_else(|| missing("cylinder", id))?;
     let (fields, archived) =
         cylinder_draft::read(&body, Draft::from(before.fields())).map_err(first)?;
     let cylinder = store::update(&mut tx, &actor.name, id, &fields, archived).await?;
@@ -148,10 +132,8 @@ async fn archive(
     Path(id): Path<String>,
     params: Params,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "cylinder")?;
-    let asked = params.units()?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "cylinder", None)?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let cylinder = store::archive(&mut tx, &actor.name, id).await?;
     tx.commit().await?;
     Ok(Json(reply(&cylinder, asked)))

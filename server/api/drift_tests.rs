@@ -7,18 +7,23 @@ use super::calc_output::drift_response;
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
-use super::shop_input::{self, si};
-use super::shop_request::{applicable_procedure, cylinder_request};
+use super::shop_answer::{
+    all_items, cylinder_and_machine, refuse_archived, stored_answer, stored_json,
+};
+use super::shop_input;
+use super::shop_request::cylinder_request;
+use super::test_body::{accepted, complete_request, read_head};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::CALC_VERSION;
 use crate::calc::drift::{Movement, analyse_drift};
 use crate::calc::quantity::Dimension as D;
 use crate::db::Db;
-use crate::db::cylinders::{self, Cylinder};
-use crate::db::drift_tests::{self as store, DriftTest, NewDriftTest, Stored};
-use crate::db::machines::{self, Machine};
+use crate::db::cylinders::Cylinder;
+use crate::db::drift_tests::{self as store, DriftTest, NewDriftTest};
+use crate::db::machines::Machine;
 use crate::db::procedures::Procedure;
+use crate::db::records::Stored;
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
@@ -45,25 +50,9 @@ const CALC_FIELDS: &[&str] = &[
     "units",
 ];
 
-/// Fields of the record itself.
-const RECORD_FIELDS: &[&str] = &[
-    "tested_at",
-    "technician",
-    "procedure_id",
-    "client_token",
-    "amends",
-    "notes",
-    "ambient_temperature",
-];
-
 /// Every field a drift-test body accepts.
 pub fn body_fields() -> Vec<&'static str> {
-    DRIFT_FIELDS
-        .iter()
-        .chain(CALC_FIELDS)
-        .chain(RECORD_FIELDS)
-        .copied()
-        .collect()
+    accepted(DRIFT_FIELDS, CALC_FIELDS)
 }
 
 /// Checks the form of each reading so that every bad field is named at once (the core's
@@ -107,53 +96,21 @@ pub async fn prepare(
 ) -> Result<NewDriftTest, Vec<AppError>> {
     let f = Fields::new(body);
     f.deny_unknown(&body_fields()).map_err(|e| vec![e])?;
-    let mut problems = Problems::default();
-    let common = shop_input::common(&f, "tested_at", "technician", user, &mut problems);
-    let procedure_id = problems
-        .take(super::draft::id(&f, "procedure_id"))
-        .flatten();
-    check_readings(&f, &mut problems);
-    let procedure = match procedure_id {
-        Some(id) => problems.take(applicable_procedure(db, id, "drift", cylinder, machine).await),
-        None => None,
-    };
-    let ambient = problems
-        .take(f.opt_quantity("ambient_temperature", D::Temperature))
-        .flatten();
-    if !problems.is_empty() {
-        return Err(problems.0);
-    }
+    let head = read_head(db, &f, "drift", (cylinder, machine), user, check_readings).await?;
     let mut request = cylinder_request(db, cylinder, f.has("load"))
         .await
         .map_err(|e| vec![e])?;
-    for name in DRIFT_FIELDS.iter().chain(CALC_FIELDS) {
-        if let Some(v) = f.raw(name) {
-            request.insert((*name).into(), v.clone());
-        }
-    }
-    let oil_start = f
-        .quantity("oil_temperature_start", D::Temperature)
-        .map_err(|e| vec![e])?;
-    if let Some(p) = &procedure {
-        if !f.has("limit")
-            && let Some(a) = p.allowed_at(oil_start)
-        {
-            request.insert(
-                "limit".into(),
-                json!({"distance": si(a.amount, D::Length), "per": si(a.per, D::Time)}),
-            );
-        }
-        if !f.has("oil_expansion")
-            && let Some(e) = p.oil_expansion_per_k
-        {
-            request.insert("oil_expansion".into(), si(e, D::Expansion));
-        }
-    }
-    if !f.has("units") {
-        let units = cylinder.site_units.as_deref().unwrap_or("metric");
-        request.insert("units".into(), json!(units));
-    }
-    analyse(cylinder, procedure.as_ref(), request, common, ambient).map_err(|e| vec![e])
+    let sent = DRIFT_FIELDS.iter().chain(CALC_FIELDS);
+    let procedure = head.procedure.as_ref();
+    complete_request(
+        &mut request,
+        &f,
+        sent,
+        (cylinder, procedure),
+        ("distance", D::Length),
+    )
+    .map_err(|e| vec![e])?;
+    analyse(cylinder, procedure, request, head.common, head.ambient).map_err(|e| vec![e])
 }
 
 /// Runs the calculation request through the engineering core as the calculation API does and
@@ -218,7 +175,7 @@ fn analyse(
 
 /// Stores a prepared drift test in one transaction with its audit row.
 pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stored<DriftTest>> {
-    let mut tx = db.begin().await?;
+    let mut tx = db.begin_with("BEGIN IMMEDIATE").await?;
     let stored = store::insert(&mut tx, &actor.name, new).await?;
     tx.commit().await?;
     Ok(stored)
@@ -227,15 +184,14 @@ pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stor
 /// A stored drift test as the API shows it: the readings as sent to the core, the analysis as
 /// computed, and who recorded it and when.
 pub fn to_json(t: &DriftTest) -> Value {
-    let parse = |text: &str| serde_json::from_str::<Value>(text).unwrap_or(Value::Null);
     json!({
         "id": t.id,
         "cylinder_id": t.cylinder_id,
         "procedure_id": t.procedure_id,
         "tested_at": t.tested_at,
         "technician": t.technician,
-        "readings": parse(&t.readings_json),
-        "analysis": parse(&t.analysis_json),
+        "readings": stored_json(&t.readings_json),
+        "analysis": stored_json(&t.analysis_json),
         "calc_version": t.calc_version,
         "verdict": t.verdict,
         "diagnosis": t.diagnosis,
@@ -255,17 +211,6 @@ pub fn to_json(t: &DriftTest) -> Value {
     })
 }
 
-async fn cylinder_and_machine(db: &Db, id: &str) -> ApiResult<(Cylinder, Machine)> {
-    let id = path_id(id, "cylinder")?;
-    let c = cylinders::find(db, id)
-        .await?
-        .ok_or_else(|| AppError::not_found(format!("cylinder {id}")))?;
-    let m = machines::find(db, c.machine_id)
-        .await?
-        .ok_or_else(|| AppError::not_found(format!("machine {}", c.machine_id)))?;
-    Ok((c, m))
-}
-
 /// `POST /api/v1/cylinders/{id}/drift-tests`: 201 with the new record, or 200 with the record
 /// a repeated `client_token` stored before.
 async fn create(
@@ -275,23 +220,13 @@ async fn create(
     Body(map): Body,
 ) -> ApiResult<(StatusCode, Json<Value>)> {
     let (cylinder, machine) = cylinder_and_machine(&state.db, &id).await?;
-    if cylinder.archived_at.is_some() {
-        return Err(AppError::conflict(
-            "cylinder",
-            "this cylinder is archived; restore it before recording tests",
-        ));
-    }
+    refuse_archived(&cylinder)?;
     let user = actor.user_id.map(|_| actor.name.as_str());
     let new = prepare(&state.db, &cylinder, &machine, &map, user)
         .await
         .map_err(first)?;
     let stored = store(&state.db, &actor, &new).await?;
-    let status = if stored.is_new() {
-        StatusCode::CREATED
-    } else {
-        StatusCode::OK
-    };
-    Ok((status, Json(to_json(stored.record()))))
+    Ok(stored_answer(&stored, to_json))
 }
 
 /// `GET /api/v1/cylinders/{id}/drift-tests`: every record, amended ones included, oldest test
@@ -299,10 +234,7 @@ async fn create(
 async fn list(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
     let (cylinder, _) = cylinder_and_machine(&state.db, &id).await?;
     let rows = store::of_cylinder(&state.db, cylinder.id).await?;
-    Ok(Json(json!({
-        "items": rows.iter().map(to_json).collect::<Vec<_>>(),
-        "next_cursor": Value::Null,
-    })))
+    Ok(all_items(&rows, to_json))
 }
 
 /// `GET /api/v1/drift-tests/{id}`.

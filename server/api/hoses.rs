@@ -2,8 +2,9 @@
 
 use super::draft::first;
 use super::hose_draft::{self, Draft};
-use super::input::{Body, Fields};
-use super::paging::{Params, page_json, path_id, pick_units, shown};
+use super::input::Body;
+use super::paging::{Params, page_json, pick_units, shown};
+use super::registry::{asked_units, missing, path_and_units, refuse_new_archived};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::quantity::{Dimension, UnitSystem};
@@ -13,7 +14,7 @@ use axum::extract::{Path, State};
 use axum::http::StatusCode;
 use axum::routing::{get, post};
 use axum::{Json, Router};
-use serde_json::{Map, Value, json};
+use serde_json::{Value, json};
 use sqlx::SqliteConnection;
 
 pub fn router() -> Router<AppState> {
@@ -57,13 +58,6 @@ pub fn reply(h: &Hose, asked: Option<UnitSystem>) -> Value {
     to_json(h, pick_units(asked, h.site_units.as_deref()))
 }
 
-fn asked_units(params: &Params, body: &Map<String, Value>) -> ApiResult<Option<UnitSystem>> {
-    if body.get("units").is_some_and(|v| !v.is_null()) {
-        return Ok(Some(Fields::new(body).units()?));
-    }
-    params.units()
-}
-
 /// Fills a missing `machine_id` from the cylinder; an unknown cylinder names `cylinder_id`.
 pub async fn machine_from_cylinder(
     conn: &mut SqliteConnection,
@@ -93,16 +87,10 @@ async fn create(
     Body(body): Body,
 ) -> ApiResult<(StatusCode, Json<Value>)> {
     params.deny_unknown(&["units"])?;
-    let asked = asked_units(&params, &body)?;
+    let asked = asked_units(&params, Some(&body))?;
     let (mut draft, archived) = hose_draft::read(&body, Draft::default()).map_err(first)?;
-    if archived == Some(true) {
-        return Err(AppError::field(
-            "archived",
-            "invalid",
-            "a new hose cannot be archived",
-        ));
-    }
-    let mut tx = state.db.begin().await?;
+    refuse_new_archived(archived, "hose")?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     machine_from_cylinder(&mut tx, &mut draft).await?;
     let fields = hose_draft::finish(draft).map_err(first)?;
     let hose = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
@@ -132,12 +120,10 @@ async fn show(
     Path(id): Path<String>,
     params: Params,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "hose")?;
-    let asked = params.units()?;
+    let (id, asked) = path_and_units(&params, &id, "hose", None)?;
     let hose = store::find(&state.db, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("hose {id}")))?;
+        .ok_or_else(|| missing("hose", id))?;
     Ok(Json(reply(&hose, asked)))
 }
 
@@ -148,13 +134,11 @@ async fn update(
     params: Params,
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "hose")?;
-    let asked = asked_units(&params, &body)?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "hose", Some(&body))?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let before = store::get(&mut tx, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("hose {id}")))?;
+        .ok_or_else(|| missing("hose", id))?;
     let (draft, archived) = hose_draft::read(&body, Draft::from(before.fields())).map_err(first)?;
     let fields = hose_draft::finish(draft).map_err(first)?;
     let hose = store::update(&mut tx, &actor.name, id, &fields, archived).await?;
@@ -168,10 +152,8 @@ async fn archive(
     Path(id): Path<String>,
     params: Params,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "hose")?;
-    let asked = params.units()?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "hose", None)?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let hose = store::archive(&mut tx, &actor.name, id).await?;
     tx.commit().await?;
     Ok(Json(reply(&hose, asked)))

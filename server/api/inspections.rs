@@ -5,13 +5,14 @@
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
+use super::shop_answer::{all_items, stored_answer, stored_json};
 use super::shop_input;
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::db::Db;
-use crate::db::drift_tests::Stored;
 use crate::db::inspections::{self as store, Inspection, KINDS, NewInspection, RESULTS};
 use crate::db::machines::{self, Machine};
+use crate::db::records::Stored;
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
@@ -173,7 +174,7 @@ pub fn prepare(
 
 /// Stores a prepared inspection (and its effect on the machine's status) in one transaction.
 pub async fn store(db: &Db, actor: &Actor, new: &NewInspection) -> ApiResult<Stored<Inspection>> {
-    let mut tx = db.begin().await?;
+    let mut tx = db.begin_with("BEGIN IMMEDIATE").await?;
     let stored = store::insert(&mut tx, &actor.name, new).await?;
     tx.commit().await?;
     Ok(stored)
@@ -188,7 +189,7 @@ pub fn to_json(i: &Inspection) -> Value {
         "hour_meter": i.hour_meter_h,
         "inspector": i.inspector,
         "result": i.result,
-        "items": serde_json::from_str::<Value>(&i.items_json).unwrap_or(Value::Null),
+        "items": stored_json(&i.items_json),
         "deficiencies": i.deficiencies,
         "corrective_action": i.corrective_action,
         "client_token": i.client_token,
@@ -219,22 +220,14 @@ async fn create(
     let user = actor.user_id.map(|_| actor.name.as_str());
     let new = prepare(&machine, &map, user).map_err(first)?;
     let stored = store(&state.db, &actor, &new).await?;
-    let status = if stored.is_new() {
-        StatusCode::CREATED
-    } else {
-        StatusCode::OK
-    };
-    Ok((status, Json(to_json(stored.record()))))
+    Ok(stored_answer(&stored, to_json))
 }
 
 /// `GET /api/v1/machines/{id}/inspections`: every record, amended ones included, newest first.
 async fn list(State(state): State<AppState>, Path(id): Path<String>) -> ApiResult<Json<Value>> {
     let machine = machine(&state.db, &id).await?;
     let rows = store::of_machine(&state.db, machine.id).await?;
-    Ok(Json(json!({
-        "items": rows.iter().map(to_json).collect::<Vec<_>>(),
-        "next_cursor": Value::Null,
-    })))
+    Ok(all_items(&rows, to_json))
 }
 
 /// `GET /api/v1/inspections/{id}`.

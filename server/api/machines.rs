@@ -2,9 +2,10 @@
 //! delete), and each machine's cylinders and hoses.
 
 use super::draft::first;
-use super::input::{Body, Fields};
+use super::input::Body;
 use super::machine_draft::{self, STATUSES, normalise_kind};
 use super::paging::{Params, page_json, path_id, pick_units, shown};
+use super::registry::{asked_units, missing, path_and_units, refuse_new_archived};
 use super::{cylinders, hoses};
 use crate::app::AppState;
 use crate::auth::Actor;
@@ -12,7 +13,7 @@ use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::db::cylinders::CylinderFilter;
 use crate::db::hoses::HoseFilter;
 use crate::db::machines::{self as store, Machine, MachineFields, MachineFilter};
-use crate::error::{ApiResult, AppError};
+use crate::error::ApiResult;
 use axum::extract::{Path, State};
 use axum::http::StatusCode;
 use axum::routing::{get, post};
@@ -60,19 +61,6 @@ pub fn to_json(m: &Machine, units: UnitSystem) -> Value {
     })
 }
 
-/// Units asked in the body (`"units"`) or the query string.
-fn asked_units(
-    params: &Params,
-    body: Option<&serde_json::Map<String, Value>>,
-) -> ApiResult<Option<UnitSystem>> {
-    if let Some(map) = body
-        && map.get("units").is_some_and(|v| !v.is_null())
-    {
-        return Ok(Some(Fields::new(map).units()?));
-    }
-    params.units()
-}
-
 fn reply(m: &Machine, asked: Option<UnitSystem>) -> Value {
     to_json(m, pick_units(asked, m.site_units.as_deref()))
 }
@@ -86,14 +74,8 @@ async fn create(
     params.deny_unknown(&["units"])?;
     let asked = asked_units(&params, Some(&body))?;
     let (fields, archived) = machine_draft::read(&body, MachineFields::default()).map_err(first)?;
-    if archived == Some(true) {
-        return Err(AppError::field(
-            "archived",
-            "invalid",
-            "a new machine cannot be archived",
-        ));
-    }
-    let mut tx = state.db.begin().await?;
+    refuse_new_archived(archived, "machine")?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let machine = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(reply(&machine, asked))))
@@ -120,7 +102,7 @@ async fn load(state: &AppState, id: &str) -> ApiResult<Machine> {
     let id = path_id(id, "machine")?;
     store::find(&state.db, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("machine {id}")))
+        .ok_or_else(|| missing("machine", id))
 }
 
 async fn show(
@@ -143,13 +125,11 @@ async fn update(
     params: Params,
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "machine")?;
-    let asked = asked_units(&params, Some(&body))?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "machine", Some(&body))?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let before = store::get(&mut tx, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("machine {id}")))?;
+        .ok_or_else(|| missing("machine", id))?;
     let (fields, archived) = machine_draft::read(&body, before.fields()).map_err(first)?;
     let machine = store::update(&mut tx, &actor.name, id, &fields, archived).await?;
     tx.commit().await?;
@@ -162,16 +142,12 @@ async fn archive(
     Path(id): Path<String>,
     params: Params,
 ) -> ApiResult<Json<Value>> {
-    params.deny_unknown(&["units"])?;
-    let id = path_id(&id, "machine")?;
-    let asked = params.units()?;
-    let mut tx = state.db.begin().await?;
+    let (id, asked) = path_and_units(&params, &id, "machine", None)?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let machine = store::archive(&mut tx, &actor.name, id)
         .await
         .map_err(|e| match e {
-            crate::db::write::WriteError::NotFound(_) => {
-                AppError::not_found(format!("machine {id}"))
-            }
+            crate::db::write::WriteError::NotFound(_) => missing("machine", id),
             other => other.into(),
         })?;
     tx.commit().await?;

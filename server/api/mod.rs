@@ -22,6 +22,7 @@ pub mod hoses;
 pub mod machine_draft;
 pub mod machines;
 pub mod paging;
+pub mod registry;
 pub mod sites;
 
 // shop
@@ -29,8 +30,10 @@ pub mod decay_tests;
 pub mod drift_tests;
 pub mod inspections;
 pub mod procedures;
+pub mod shop_answer;
 pub mod shop_input;
 pub mod shop_request;
+pub mod test_body;
 
 // reports
 pub mod report_rows;

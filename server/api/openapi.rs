@@ -11,7 +11,9 @@ use axum::response::IntoResponse;
 use axum::routing::get;
 use dsl::S;
 use std::sync::OnceLock;
-use utoipa::openapi::path::{HttpMethod, Operation, OperationBuilder, ParameterBuilder, ParameterIn};
+use utoipa::openapi::path::{
+    HttpMethod, Operation, OperationBuilder, ParameterBuilder, ParameterIn,
+};
 use utoipa::openapi::request_body::RequestBodyBuilder;
 use utoipa::openapi::security::{HttpAuthScheme, HttpBuilder, SecurityRequirement, SecurityScheme};
 use utoipa::openapi::{
@@ -147,15 +149,19 @@ impl Op {
             op = op.request_body(Some(
                 RequestBodyBuilder::new()
                     .required(Some(Required::True))
-                    .content("application/json", ContentBuilder::new().schema(Some(body)).build())
+                    .content(
+                        "application/json",
+                        ContentBuilder::new().schema(Some(body)).build(),
+                    )
                     .build(),
             ));
         }
         let mut responses = ResponsesBuilder::new();
         for (status, about, schema) in self.ok {
-            let mut response = ResponseBuilder::new()
-                .description(about)
-                .content("application/json", ContentBuilder::new().schema(Some(schema)).build());
+            let mut response = ResponseBuilder::new().description(about).content(
+                "application/json",
+                ContentBuilder::new().schema(Some(schema)).build(),
+            );
             if self.csv {
                 response = response.content(
                     "text/csv",
@@ -171,7 +177,9 @@ impl Op {
                     .description(error_words(status))
                     .content(
                         "application/json",
-                        ContentBuilder::new().schema(Some(dsl::reference("Error"))).build(),
+                        ContentBuilder::new()
+                            .schema(Some(dsl::reference("Error")))
+                            .build(),
                     )
                     .build(),
             );
@@ -233,7 +241,11 @@ pub fn operations() -> Vec<Op> {
     let mut ops = vec![
         Op::get("/api/v1/openapi.json", "meta", "This document.")
             .public()
-            .ok(200, "The OpenAPI 3.1 document.", dsl::object(vec![], &["openapi", "paths"])),
+            .ok(
+                200,
+                "The OpenAPI 3.1 document.",
+                dsl::object(vec![], &["openapi", "paths"]),
+            ),
     ];
     ops.extend(calc::operations());
     ops.extend(registry::operations());

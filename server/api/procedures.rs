@@ -164,12 +164,12 @@ fn read(
     }
     if changed("oil_temperature_min") {
         out.oil_temperature_min_k = p
-            .take(f.opt_quantity("oil_temperature_min", D::Temperature))
+            .take(super::draft::positive(f, "oil_temperature_min", D::Temperature))
             .flatten();
     }
     if changed("oil_temperature_max") {
         out.oil_temperature_max_k = p
-            .take(f.opt_quantity("oil_temperature_max", D::Temperature))
+            .take(super::draft::positive(f, "oil_temperature_max", D::Temperature))
             .flatten();
     }
     if changed("duration")
@@ -290,7 +290,7 @@ async fn create(
         ));
     }
     let fields = read(&f, &map, None).map_err(first)?;
-    let mut tx = state.db.begin().await?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let stored = store::insert(&mut tx, &actor.name, &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(to_json(&stored, units))))
@@ -306,7 +306,7 @@ async fn update(
     let f = Fields::new(&map);
     let units = body_units(&f)?;
     let archived = f.opt_bool("archived")?;
-    let mut tx = state.db.begin().await?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let before = store::get(&mut tx, id)
         .await?
         .ok_or_else(|| AppError::not_found(format!("procedure {id}")))?;

@@ -3,6 +3,7 @@
 use super::draft::{Problems, first, required_text, touched};
 use super::input::{Body, Fields};
 use super::paging::{Params, page_json, path_id};
+use super::registry::{missing, refuse_new_archived};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::db::sites::{self, Site, SiteFields};
@@ -77,14 +78,8 @@ async fn create(
         units: "metric".into(),
     };
     let (fields, archived) = read(&body, empty).map_err(first)?;
-    if archived == Some(true) {
-        return Err(AppError::field(
-            "archived",
-            "invalid",
-            "a new site cannot be archived",
-        ));
-    }
-    let mut tx = state.db.begin().await?;
+    refuse_new_archived(archived, "site")?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let site = sites::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(to_json(&site))))
@@ -101,7 +96,7 @@ async fn show(State(state): State<AppState>, Path(id): Path<String>) -> ApiResul
     let id = path_id(&id, "site")?;
     let site = sites::find(&state.db, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("site {id}")))?;
+        .ok_or_else(|| missing("site", id))?;
     Ok(Json(to_json(&site)))
 }
 
@@ -112,10 +107,10 @@ async fn update(
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
     let id = path_id(&id, "site")?;
-    let mut tx = state.db.begin().await?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
     let before = sites::get(&mut tx, id)
         .await?
-        .ok_or_else(|| AppError::not_found(format!("site {id}")))?;
+        .ok_or_else(|| missing("site", id))?;
     let (fields, archived) = read(&body, before.fields()).map_err(first)?;
     let site = sites::update(&mut tx, &actor.name, id, &fields, archived).await?;
     tx.commit().await?;

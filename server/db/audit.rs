@@ -2,6 +2,7 @@
 //! and after as JSON.
 
 use super::Db;
+use super::write::snapshot;
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -29,6 +30,41 @@ pub async fn record(
     .execute(conn)
     .await?;
     Ok(())
+}
+
+/// Writes the audit row of a new record (`create`, the record as stored).
+pub async fn created<T: Serialize>(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    entity: &str,
+    entity_id: i64,
+    stored: &T,
+) -> Result<(), sqlx::Error> {
+    let after = snapshot(stored);
+    record(conn, actor, "create", entity, entity_id, None, Some(&after)).await
+}
+
+/// Writes the audit row of a change (`action`), with the record before and after.
+pub async fn changed<T: Serialize>(
+    conn: &mut SqliteConnection,
+    actor: &str,
+    action: &str,
+    entity: &str,
+    entity_id: i64,
+    before: &T,
+    after: &T,
+) -> Result<(), sqlx::Error> {
+    let (before, after) = (snapshot(before), snapshot(after));
+    record(
+        conn,
+        actor,
+        action,
+        entity,
+        entity_id,
+        Some(&before),
+        Some(&after),
+    )
+    .await
 }
 
 /// One audit row.

@@ -2,7 +2,7 @@
 //! for the strength checks, and the drift-test interval.
 
 use super::page::{Page, Window, contains_pattern};
-use super::write::{WriteError, snapshot};
+use super::write::{WriteError, archived_at_after, change_action};
 use super::{Db, audit, machines};
 use serde::Serialize;
 use sqlx::SqliteConnection;
@@ -202,16 +202,7 @@ pub async fn insert(
     let cylinder = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("cylinder"))?;
-    audit::record(
-        conn,
-        actor,
-        "create",
-        "cylinder",
-        id,
-        None,
-        Some(&snapshot(&cylinder)),
-    )
-    .await?;
+    audit::created(conn, actor, "cylinder", id, &cylinder).await?;
     Ok(cylinder)
 }
 
@@ -236,14 +227,7 @@ pub async fn update(
             ));
         }
     }
-    let archived_at = match archived {
-        None => before.archived_at.clone(),
-        Some(false) => None,
-        Some(true) => before
-            .archived_at
-            .clone()
-            .or_else(|| Some(super::now_rfc3339())),
-    };
+    let archived_at = archived_at_after(&before.archived_at, archived, super::now_rfc3339);
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);
     }
@@ -277,21 +261,8 @@ pub async fn update(
     let after = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("cylinder"))?;
-    let action = match (&before.archived_at, &after.archived_at) {
-        (None, Some(_)) => "archive",
-        (Some(_), None) => "restore",
-        _ => "update",
-    };
-    audit::record(
-        conn,
-        actor,
-        action,
-        "cylinder",
-        id,
-        Some(&snapshot(&before)),
-        Some(&snapshot(&after)),
-    )
-    .await?;
+    let action = change_action(&before.archived_at, &after.archived_at);
+    audit::changed(conn, actor, action, "cylinder", id, &before, &after).await?;
     Ok(after)
 }
 
@@ -305,4 +276,16 @@ pub async fn archive(
         .await?
         .ok_or(WriteError::NotFound("cylinder"))?;
     update(conn, actor, id, &before.fields(), Some(true)).await
+}
+
+/// Refuses a test on a cylinder that does not exist or is archived.
+pub async fn check_testable(conn: &mut SqliteConnection, id: i64) -> Result<(), WriteError> {
+    match get(conn, id).await? {
+        None => Err(WriteError::NotFound("cylinder")),
+        Some(c) if c.archived_at.is_some() => Err(WriteError::conflict(
+            "cylinder",
+            "this cylinder is archived; restore it before recording tests",
+        )),
+        Some(_) => Ok(()),
+    }
 }

@@ -2,9 +2,9 @@
 //! pressure read at start and end with the oil temperatures. Stored like drift tests: readings
 //! as SI columns and as sent to the engineering core, the analysis as computed. Append-only.
 
-use super::drift_tests::Stored;
-use super::write::{WriteError, is_unique_violation, snapshot};
-use super::{Db, audit, cylinders};
+use super::records::{self, Record, Stored, Table};
+use super::write::WriteError;
+use super::{Db, cylinders};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -86,6 +86,16 @@ pub struct NewDecayTest {
     pub amends_id: Option<i64>,
 }
 
+impl Record for DecayTest {
+    fn parent_id(&self) -> i64 {
+        self.cylinder_id
+    }
+
+    fn amended_by_id(&self) -> Option<i64> {
+        self.amended_by_id
+    }
+}
+
 macro_rules! select_decay_test {
     () => {
         "SELECT t.id, t.cylinder_id, t.procedure_id, t.tested_at, t.technician,
@@ -101,73 +111,39 @@ macro_rules! select_decay_test {
     };
 }
 
+const TABLE: Table = Table {
+    by_id: concat!(select_decay_test!(), "WHERE t.id = ?"),
+    by_token: concat!(select_decay_test!(), "WHERE t.client_token = ?"),
+    noun: "decay test",
+    entity: "decay_test",
+    parent: "cylinder",
+    token_clash: "this client token was already used for another cylinder's test",
+};
+
 pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<DecayTest>, sqlx::Error> {
-    sqlx::query_as::<_, DecayTest>(concat!(select_decay_test!(), "WHERE t.id = ?"))
-        .bind(id)
-        .fetch_optional(conn)
-        .await
+    records::get(conn, &TABLE, id).await
 }
 
 pub async fn find(db: &Db, id: i64) -> Result<Option<DecayTest>, sqlx::Error> {
-    let mut conn = db.acquire().await?;
-    get(&mut conn, id).await
+    records::find(db, &TABLE, id).await
 }
 
 pub async fn by_token(
     conn: &mut SqliteConnection,
     token: &str,
 ) -> Result<Option<DecayTest>, sqlx::Error> {
-    sqlx::query_as::<_, DecayTest>(concat!(select_decay_test!(), "WHERE t.client_token = ?"))
-        .bind(token)
-        .fetch_optional(conn)
-        .await
+    records::by_token(conn, &TABLE, token).await
 }
 
 /// Every decay test of a cylinder, amended ones included, oldest first (the latest 1000).
 pub async fn of_cylinder(db: &Db, cylinder_id: i64) -> Result<Vec<DecayTest>, sqlx::Error> {
-    let mut rows = sqlx::query_as::<_, DecayTest>(concat!(
+    let sql = concat!(
         select_decay_test!(),
         "WHERE t.cylinder_id = ? ORDER BY t.tested_at DESC, t.id DESC LIMIT 1000"
-    ))
-    .bind(cylinder_id)
-    .fetch_all(db)
-    .await?;
+    );
+    let mut rows: Vec<DecayTest> = records::of_parent(db, sql, cylinder_id).await?;
     rows.reverse();
     Ok(rows)
-}
-
-async fn check_amends(
-    conn: &mut SqliteConnection,
-    cylinder_id: i64,
-    amends: i64,
-) -> Result<DecayTest, WriteError> {
-    let old = get(conn, amends)
-        .await?
-        .ok_or_else(|| WriteError::invalid("amends", format!("there is no decay test {amends}")))?;
-    if old.cylinder_id != cylinder_id {
-        return Err(WriteError::invalid(
-            "amends",
-            format!("decay test {amends} belongs to another cylinder"),
-        ));
-    }
-    if let Some(later) = old.amended_by_id {
-        return Err(WriteError::conflict(
-            "amends",
-            format!("decay test {amends} is already amended by {later}; amend that one instead"),
-        ));
-    }
-    Ok(old)
-}
-
-fn repeated(found: DecayTest, cylinder_id: i64) -> Result<Stored<DecayTest>, WriteError> {
-    if found.cylinder_id == cylinder_id {
-        Ok(Stored::Existing(found))
-    } else {
-        Err(WriteError::conflict(
-            "client_token",
-            "this client token was already used for another cylinder's test",
-        ))
-    }
 }
 
 /// Stores a decay test with its audit row, inside the caller's transaction; a client token
@@ -177,16 +153,12 @@ pub async fn insert(
     actor: &str,
     t: &NewDecayTest,
 ) -> Result<Stored<DecayTest>, WriteError> {
-    if let Some(token) = &t.client_token
-        && let Some(found) = by_token(conn, token).await?
-    {
-        return repeated(found, t.cylinder_id);
+    let token = t.client_token.as_deref();
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, t.cylinder_id).await? {
+        return Ok(found);
     }
-    check_cylinder(conn, t.cylinder_id).await?;
-    let before = match t.amends_id {
-        Some(amends) => Some(check_amends(conn, t.cylinder_id, amends).await?),
-        None => None,
-    };
+    cylinders::check_testable(conn, t.cylinder_id).await?;
+    let before = records::amended::<DecayTest>(conn, &TABLE, t.cylinder_id, t.amends_id).await?;
     let flags = serde_json::to_string(&t.flags).unwrap_or_else(|_| "[]".into());
     let inserted = sqlx::query_scalar::<_, i64>(
         "INSERT INTO decay_tests (cylinder_id, procedure_id, tested_at, technician,
@@ -231,43 +203,14 @@ pub async fn insert(
     .bind(actor)
     .fetch_one(&mut *conn)
     .await;
-    let id = match inserted {
-        Ok(id) => id,
-        Err(e) if is_unique_violation(&e) => {
-            if let Some(token) = &t.client_token
-                && let Some(found) = by_token(conn, token).await?
-            {
-                return repeated(found, t.cylinder_id);
-            }
-            return Err(e.into());
-        }
-        Err(e) => return Err(e.into()),
-    };
-    let stored = get(conn, id)
-        .await?
-        .ok_or(WriteError::NotFound("decay test"))?;
-    let action = if before.is_some() { "amend" } else { "create" };
-    audit::record(
+    records::finish(
         conn,
+        &TABLE,
         actor,
-        action,
-        "decay_test",
-        id,
-        before.as_ref().map(snapshot).as_ref(),
-        Some(&snapshot(&stored)),
+        inserted,
+        token,
+        t.cylinder_id,
+        before.as_ref(),
     )
-    .await?;
-    Ok(Stored::Created(stored))
-}
-
-/// Refuses a test on a cylinder that does not exist or is archived.
-async fn check_cylinder(conn: &mut SqliteConnection, id: i64) -> Result<(), WriteError> {
-    match cylinders::get(conn, id).await? {
-        None => Err(WriteError::NotFound("cylinder")),
-        Some(c) if c.archived_at.is_some() => Err(WriteError::conflict(
-            "cylinder",
-            "this cylinder is archived; restore it before recording tests",
-        )),
-        Some(_) => Ok(()),
-    }
+    .await
 }

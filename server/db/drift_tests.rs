@@ -2,8 +2,9 @@
 //! as computed and by which calculation version. Append-only: a correction is a new row that
 //! amends the old; a repeated client token finds the stored row instead of storing twice.
 
-use super::write::{WriteError, is_unique_violation, snapshot};
-use super::{Db, audit, cylinders};
+use super::records::{self, Record, Stored, Table};
+use super::write::WriteError;
+use super::{Db, cylinders};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -98,28 +99,13 @@ pub struct NewDriftTest {
     pub amends_id: Option<i64>,
 }
 
-/// Whether a write stored a new row or found the one a repeated client token had stored.
-#[derive(Clone, Debug, PartialEq)]
-pub enum Stored<T> {
-    Created(T),
-    Existing(T),
-}
-
-impl<T> Stored<T> {
-    pub fn record(&self) -> &T {
-        match self {
-            Stored::Created(r) | Stored::Existing(r) => r,
-        }
+impl Record for DriftTest {
+    fn parent_id(&self) -> i64 {
+        self.cylinder_id
     }
 
-    pub fn into_record(self) -> T {
-        match self {
-            Stored::Created(r) | Stored::Existing(r) => r,
-        }
-    }
-
-    pub fn is_new(&self) -> bool {
-        matches!(self, Stored::Created(_))
+    fn amended_by_id(&self) -> Option<i64> {
+        self.amended_by_id
     }
 }
 
@@ -138,17 +124,22 @@ macro_rules! select_drift_test {
     };
 }
 
+const TABLE: Table = Table {
+    by_id: concat!(select_drift_test!(), "WHERE t.id = ?"),
+    by_token: concat!(select_drift_test!(), "WHERE t.client_token = ?"),
+    noun: "drift test",
+    entity: "drift_test",
+    parent: "cylinder",
+    token_clash: "this client token was already used for another cylinder's test",
+};
+
 /// One drift test by id.
 pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<DriftTest>, sqlx::Error> {
-    sqlx::query_as::<_, DriftTest>(concat!(select_drift_test!(), "WHERE t.id = ?"))
-        .bind(id)
-        .fetch_optional(conn)
-        .await
+    records::get(conn, &TABLE, id).await
 }
 
 pub async fn find(db: &Db, id: i64) -> Result<Option<DriftTest>, sqlx::Error> {
-    let mut conn = db.acquire().await?;
-    get(&mut conn, id).await
+    records::find(db, &TABLE, id).await
 }
 
 /// The drift test stored under a client token, if any.
@@ -156,61 +147,19 @@ pub async fn by_token(
     conn: &mut SqliteConnection,
     token: &str,
 ) -> Result<Option<DriftTest>, sqlx::Error> {
-    sqlx::query_as::<_, DriftTest>(concat!(select_drift_test!(), "WHERE t.client_token = ?"))
-        .bind(token)
-        .fetch_optional(conn)
-        .await
+    records::by_token(conn, &TABLE, token).await
 }
 
 /// Every drift test of a cylinder, amended ones included, oldest test first (at most 1000, the
 /// latest ones).
 pub async fn of_cylinder(db: &Db, cylinder_id: i64) -> Result<Vec<DriftTest>, sqlx::Error> {
-    let mut rows = sqlx::query_as::<_, DriftTest>(concat!(
+    let sql = concat!(
         select_drift_test!(),
         "WHERE t.cylinder_id = ? ORDER BY t.tested_at DESC, t.id DESC LIMIT 1000"
-    ))
-    .bind(cylinder_id)
-    .fetch_all(db)
-    .await?;
+    );
+    let mut rows: Vec<DriftTest> = records::of_parent(db, sql, cylinder_id).await?;
     rows.reverse();
     Ok(rows)
-}
-
-/// Checks that `amends` names a record of the same cylinder that no other record amends yet
-/// (a correction of a correction amends the latest one, so the chain stays a line).
-async fn check_amends(
-    conn: &mut SqliteConnection,
-    cylinder_id: i64,
-    amends: i64,
-) -> Result<DriftTest, WriteError> {
-    let old = get(conn, amends)
-        .await?
-        .ok_or_else(|| WriteError::invalid("amends", format!("there is no drift test {amends}")))?;
-    if old.cylinder_id != cylinder_id {
-        return Err(WriteError::invalid(
-            "amends",
-            format!("drift test {amends} belongs to another cylinder"),
-        ));
-    }
-    if let Some(later) = old.amended_by_id {
-        return Err(WriteError::conflict(
-            "amends",
-            format!("drift test {amends} is already amended by {later}; amend that one instead"),
-        ));
-    }
-    Ok(old)
-}
-
-/// The existing record for a repeated token: the same cylinder's, else a conflict.
-fn repeated(found: DriftTest, cylinder_id: i64) -> Result<Stored<DriftTest>, WriteError> {
-    if found.cylinder_id == cylinder_id {
-        Ok(Stored::Existing(found))
-    } else {
-        Err(WriteError::conflict(
-            "client_token",
-            "this client token was already used for another cylinder's test",
-        ))
-    }
 }
 
 /// Stores a drift test with its audit row, inside the caller's transaction. A client token
@@ -220,16 +169,12 @@ pub async fn insert(
     actor: &str,
     t: &NewDriftTest,
 ) -> Result<Stored<DriftTest>, WriteError> {
-    if let Some(token) = &t.client_token
-        && let Some(found) = by_token(conn, token).await?
-    {
-        return repeated(found, t.cylinder_id);
+    let token = t.client_token.as_deref();
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, t.cylinder_id).await? {
+        return Ok(found);
     }
-    check_cylinder(conn, t.cylinder_id).await?;
-    let before = match t.amends_id {
-        Some(amends) => Some(check_amends(conn, t.cylinder_id, amends).await?),
-        None => None,
-    };
+    cylinders::check_testable(conn, t.cylinder_id).await?;
+    let before = records::amended::<DriftTest>(conn, &TABLE, t.cylinder_id, t.amends_id).await?;
     let flags = serde_json::to_string(&t.flags).unwrap_or_else(|_| "[]".into());
     let inserted = sqlx::query_scalar::<_, i64>(
         "INSERT INTO drift_tests (cylinder_id, procedure_id, tested_at, technician, duration_s,
@@ -278,44 +223,14 @@ pub async fn insert(
     .bind(actor)
     .fetch_one(&mut *conn)
     .await;
-    let id = match inserted {
-        Ok(id) => id,
-        // Another request stored the same token between our look-up and the insert.
-        Err(e) if is_unique_violation(&e) => {
-            if let Some(token) = &t.client_token
-                && let Some(found) = by_token(conn, token).await?
-            {
-                return repeated(found, t.cylinder_id);
-            }
-            return Err(e.into());
-        }
-        Err(e) => return Err(e.into()),
-    };
-    let stored = get(conn, id)
-        .await?
-        .ok_or(WriteError::NotFound("drift test"))?;
-    let action = if before.is_some() { "amend" } else { "create" };
-    audit::record(
+    records::finish(
         conn,
+        &TABLE,
         actor,
-        action,
-        "drift_test",
-        id,
-        before.as_ref().map(snapshot).as_ref(),
-        Some(&snapshot(&stored)),
+        inserted,
+        token,
+        t.cylinder_id,
+        before.as_ref(),
     )
-    .await?;
-    Ok(Stored::Created(stored))
-}
-
-/// Refuses a test on a cylinder that does not exist or is archived.
-async fn check_cylinder(conn: &mut SqliteConnection, id: i64) -> Result<(), WriteError> {
-    match cylinders::get(conn, id).await? {
-        None => Err(WriteError::NotFound("cylinder")),
-        Some(c) if c.archived_at.is_some() => Err(WriteError::conflict(
-            "cylinder",
-            "this cylinder is archived; restore it before recording tests",
-        )),
-        Some(_) => Ok(()),
-    }
+    .await
 }

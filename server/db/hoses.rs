@@ -2,7 +2,7 @@
 //! layline says, its maximum working pressure, and its dates.
 
 use super::page::{Page, Window, contains_pattern};
-use super::write::{WriteError, snapshot};
+use super::write::{WriteError, archived_at_after, change_action};
 use super::{Db, audit, cylinders, machines};
 use serde::Serialize;
 use sqlx::SqliteConnection;
@@ -225,16 +225,7 @@ pub async fn insert(
     .fetch_one(&mut *conn)
     .await?;
     let hose = get(conn, id).await?.ok_or(WriteError::NotFound("hose"))?;
-    audit::record(
-        conn,
-        actor,
-        "create",
-        "hose",
-        id,
-        None,
-        Some(&snapshot(&hose)),
-    )
-    .await?;
+    audit::created(conn, actor, "hose", id, &hose).await?;
     Ok(hose)
 }
 
@@ -248,14 +239,7 @@ pub async fn update(
 ) -> Result<Hose, WriteError> {
     let before = get(conn, id).await?.ok_or(WriteError::NotFound("hose"))?;
     check_place(conn, f, Some(&before)).await?;
-    let archived_at = match archived {
-        None => before.archived_at.clone(),
-        Some(false) => None,
-        Some(true) => before
-            .archived_at
-            .clone()
-            .or_else(|| Some(super::now_rfc3339())),
-    };
+    let archived_at = archived_at_after(&before.archived_at, archived, super::now_rfc3339);
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);
     }
@@ -283,21 +267,8 @@ pub async fn update(
     .execute(&mut *conn)
     .await?;
     let after = get(conn, id).await?.ok_or(WriteError::NotFound("hose"))?;
-    let action = match (&before.archived_at, &after.archived_at) {
-        (None, Some(_)) => "archive",
-        (Some(_), None) => "restore",
-        _ => "update",
-    };
-    audit::record(
-        conn,
-        actor,
-        action,
-        "hose",
-        id,
-        Some(&snapshot(&before)),
-        Some(&snapshot(&after)),
-    )
-    .await?;
+    let action = change_action(&before.archived_at, &after.archived_at);
+    audit::changed(conn, actor, action, "hose", id, &before, &after).await?;
     Ok(after)
 }
 

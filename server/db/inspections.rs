@@ -2,9 +2,9 @@
 //! that amends the old. A `fail` puts the machine out of service in the same transaction and
 //! names itself as the cause; a later `pass` or `pass_with_deficiencies` puts it back.
 
-use super::drift_tests::Stored;
-use super::write::{WriteError, is_unique_violation, snapshot};
-use super::{Db, audit, machines};
+use super::records::{self, Record, Stored, Table};
+use super::write::WriteError;
+use super::{Db, machines};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -54,6 +54,16 @@ pub struct NewInspection {
     pub amends_id: Option<i64>,
 }
 
+impl Record for Inspection {
+    fn parent_id(&self) -> i64 {
+        self.machine_id
+    }
+
+    fn amended_by_id(&self) -> Option<i64> {
+        self.amended_by_id
+    }
+}
+
 macro_rules! select_inspection {
     () => {
         "SELECT i.id, i.machine_id, i.kind, i.performed_on, i.hour_meter_h, i.inspector,
@@ -64,71 +74,37 @@ macro_rules! select_inspection {
     };
 }
 
+const TABLE: Table = Table {
+    by_id: concat!(select_inspection!(), "WHERE i.id = ?"),
+    by_token: concat!(select_inspection!(), "WHERE i.client_token = ?"),
+    noun: "inspection",
+    entity: "inspection",
+    parent: "machine",
+    token_clash: "this client token was already used for another machine's inspection",
+};
+
 pub async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<Inspection>, sqlx::Error> {
-    sqlx::query_as::<_, Inspection>(concat!(select_inspection!(), "WHERE i.id = ?"))
-        .bind(id)
-        .fetch_optional(conn)
-        .await
+    records::get(conn, &TABLE, id).await
 }
 
 pub async fn find(db: &Db, id: i64) -> Result<Option<Inspection>, sqlx::Error> {
-    let mut conn = db.acquire().await?;
-    get(&mut conn, id).await
+    records::find(db, &TABLE, id).await
 }
 
 pub async fn by_token(
     conn: &mut SqliteConnection,
     token: &str,
 ) -> Result<Option<Inspection>, sqlx::Error> {
-    sqlx::query_as::<_, Inspection>(concat!(select_inspection!(), "WHERE i.client_token = ?"))
-        .bind(token)
-        .fetch_optional(conn)
-        .await
+    records::by_token(conn, &TABLE, token).await
 }
 
 /// Every inspection of a machine, amended ones included, newest first (at most 1000).
 pub async fn of_machine(db: &Db, machine_id: i64) -> Result<Vec<Inspection>, sqlx::Error> {
-    sqlx::query_as::<_, Inspection>(concat!(
+    let sql = concat!(
         select_inspection!(),
         "WHERE i.machine_id = ? ORDER BY i.performed_on DESC, i.id DESC LIMIT 1000"
-    ))
-    .bind(machine_id)
-    .fetch_all(db)
-    .await
-}
-
-async fn check_amends(
-    conn: &mut SqliteConnection,
-    machine_id: i64,
-    amends: i64,
-) -> Result<Inspection, WriteError> {
-    let old = get(conn, amends)
-        .await?
-        .ok_or_else(|| WriteError::invalid("amends", format!("there is no inspection {amends}")))?;
-    if old.machine_id != machine_id {
-        return Err(WriteError::invalid(
-            "amends",
-            format!("inspection {amends} belongs to another machine"),
-        ));
-    }
-    if let Some(later) = old.amended_by_id {
-        return Err(WriteError::conflict(
-            "amends",
-            format!("inspection {amends} is already amended by {later}; amend that one instead"),
-        ));
-    }
-    Ok(old)
-}
-
-fn repeated(found: Inspection, machine_id: i64) -> Result<Stored<Inspection>, WriteError> {
-    if found.machine_id == machine_id {
-        Ok(Stored::Existing(found))
-    } else {
-        Err(WriteError::conflict(
-            "client_token",
-            "this client token was already used for another machine's inspection",
-        ))
-    }
+    );
+    records::of_parent(db, sql, machine_id).await
 }
 
 /// The inspection that put the machine out of service, if that is why it is out.
@@ -241,16 +217,12 @@ pub async fn insert(
     actor: &str,
     i: &NewInspection,
 ) -> Result<Stored<Inspection>, WriteError> {
-    if let Some(token) = &i.client_token
-        && let Some(found) = by_token(conn, token).await?
-    {
-        return repeated(found, i.machine_id);
+    let token = i.client_token.as_deref();
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, i.machine_id).await? {
+        return Ok(found);
     }
     machines::check_usable(conn, "machine_id", i.machine_id).await?;
-    let before = match i.amends_id {
-        Some(amends) => Some(check_amends(conn, i.machine_id, amends).await?),
-        None => None,
-    };
+    let before = records::amended::<Inspection>(conn, &TABLE, i.machine_id, i.amends_id).await?;
     let inserted = sqlx::query_scalar::<_, i64>(
         "INSERT INTO inspections (machine_id, kind, performed_on, hour_meter_h, inspector,
             result, items_json, deficiencies, corrective_action, client_token, amends_id,
@@ -272,32 +244,18 @@ pub async fn insert(
     .bind(actor)
     .fetch_one(&mut *conn)
     .await;
-    let id = match inserted {
-        Ok(id) => id,
-        Err(e) if is_unique_violation(&e) => {
-            if let Some(token) = &i.client_token
-                && let Some(found) = by_token(conn, token).await?
-            {
-                return repeated(found, i.machine_id);
-            }
-            return Err(e.into());
-        }
-        Err(e) => return Err(e.into()),
-    };
-    let stored = get(conn, id)
-        .await?
-        .ok_or(WriteError::NotFound("inspection"))?;
-    let action = if before.is_some() { "amend" } else { "create" };
-    audit::record(
+    let stored = records::finish(
         conn,
+        &TABLE,
         actor,
-        action,
-        "inspection",
-        id,
-        before.as_ref().map(snapshot).as_ref(),
-        Some(&snapshot(&stored)),
+        inserted,
+        token,
+        i.machine_id,
+        before.as_ref(),
     )
     .await?;
-    apply_to_machine(conn, actor, &stored).await?;
-    Ok(Stored::Created(stored))
+    if let Stored::Created(record) = &stored {
+        apply_to_machine(conn, actor, record).await?;
+    }
+    Ok(stored)
 }

@@ -2,7 +2,7 @@
 //! setting and inspection intervals.
 
 use super::page::{Page, Window, contains_pattern};
-use super::write::{WriteError, is_unique_violation, snapshot};
+use super::write::{WriteError, archived_at_after, change_action, unique_as};
 use super::{Db, audit, sites};
 use serde::Serialize;
 use sqlx::SqliteConnection;
@@ -189,13 +189,7 @@ fn duplicate(unit_number: &str) -> WriteError {
 }
 
 fn map_unique(unit_number: &str) -> impl FnOnce(sqlx::Error) -> WriteError + '_ {
-    move |e| {
-        if is_unique_violation(&e) {
-            duplicate(unit_number)
-        } else {
-            e.into()
-        }
-    }
+    unique_as(move || duplicate(unit_number))
 }
 
 /// Registers a machine; `at` is the registration time (RFC 3339). Refuses an unknown or
@@ -238,16 +232,7 @@ pub async fn insert(
     let machine = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("machine"))?;
-    audit::record(
-        conn,
-        actor,
-        "create",
-        "machine",
-        id,
-        None,
-        Some(&snapshot(&machine)),
-    )
-    .await?;
+    audit::created(conn, actor, "machine", id, &machine).await?;
     Ok(machine)
 }
 
@@ -268,14 +253,7 @@ pub async fn update(
     {
         sites::check_usable(conn, "site_id", site_id).await?;
     }
-    let archived_at = match archived {
-        None => before.archived_at.clone(),
-        Some(false) => None,
-        Some(true) => before
-            .archived_at
-            .clone()
-            .or_else(|| Some(super::now_rfc3339())),
-    };
+    let archived_at = archived_at_after(&before.archived_at, archived, super::now_rfc3339);
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);
     }
@@ -314,21 +292,8 @@ pub async fn update(
     let after = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("machine"))?;
-    let action = match (&before.archived_at, &after.archived_at) {
-        (None, Some(_)) => "archive",
-        (Some(_), None) => "restore",
-        _ => "update",
-    };
-    audit::record(
-        conn,
-        actor,
-        action,
-        "machine",
-        id,
-        Some(&snapshot(&before)),
-        Some(&snapshot(&after)),
-    )
-    .await?;
+    let action = change_action(&before.archived_at, &after.archived_at);
+    audit::changed(conn, actor, action, "machine", id, &before, &after).await?;
     Ok(after)
 }
 

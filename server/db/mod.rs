@@ -21,6 +21,7 @@ pub mod decay_tests;
 pub mod drift_tests;
 pub mod inspections;
 pub mod procedures;
+pub mod records;
 
 // reports
 pub mod reports;

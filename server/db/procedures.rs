@@ -3,7 +3,7 @@
 //! depends on oil temperature). Kept for one cylinder or shared by the machines of one kind.
 //! Edited in place with an audit row per change; archived, never deleted.
 
-use super::write::{WriteError, snapshot};
+use super::write::{WriteError, archived_at_after, change_action};
 use super::{Db, audit, cylinders};
 use serde::Serialize;
 use sqlx::SqliteConnection;
@@ -308,16 +308,7 @@ pub async fn insert(
     let p = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("procedure"))?;
-    audit::record(
-        conn,
-        actor,
-        "create",
-        "test_procedure",
-        id,
-        None,
-        Some(&snapshot(&p)),
-    )
-    .await?;
+    audit::created(conn, actor, "test_procedure", id, &p).await?;
     Ok(p)
 }
 
@@ -338,11 +329,7 @@ pub async fn update(
         check_target(conn, f).await?;
     }
     let at = super::now_rfc3339();
-    let archived_at = match archived {
-        None => before.archived_at.clone(),
-        Some(false) => None,
-        Some(true) => before.archived_at.clone().or_else(|| Some(at.clone())),
-    };
+    let archived_at = archived_at_after(&before.archived_at, archived, || at.clone());
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);
     }
@@ -388,20 +375,7 @@ pub async fn update(
     let after = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("procedure"))?;
-    let action = match (&before.archived_at, &after.archived_at) {
-        (None, Some(_)) => "archive",
-        (Some(_), None) => "restore",
-        _ => "update",
-    };
-    audit::record(
-        conn,
-        actor,
-        action,
-        "test_procedure",
-        id,
-        Some(&snapshot(&before)),
-        Some(&snapshot(&after)),
-    )
-    .await?;
+    let action = change_action(&before.archived_at, &after.archived_at);
+    audit::changed(conn, actor, action, "test_procedure", id, &before, &after).await?;
     Ok(after)
 }

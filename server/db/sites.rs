@@ -1,7 +1,7 @@
 //! Sites (yards, depots): a name and the units their people read.
 
 use super::page::{Page, Window};
-use super::write::{WriteError, is_unique_violation, snapshot};
+use super::write::{WriteError, archived_at_after, change_action, unique_as};
 use super::{Db, audit};
 use serde::Serialize;
 use sqlx::SqliteConnection;
@@ -96,24 +96,9 @@ pub async fn insert(
     .bind(at)
     .fetch_one(&mut *conn)
     .await
-    .map_err(|e| {
-        if is_unique_violation(&e) {
-            duplicate(&fields.name)
-        } else {
-            e.into()
-        }
-    })?;
+    .map_err(unique_as(|| duplicate(&fields.name)))?;
     let site = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
-    audit::record(
-        conn,
-        actor,
-        "create",
-        "site",
-        id,
-        None,
-        Some(&snapshot(&site)),
-    )
-    .await?;
+    audit::created(conn, actor, "site", id, &site).await?;
     Ok(site)
 }
 
@@ -126,14 +111,7 @@ pub async fn update(
     archived: Option<bool>,
 ) -> Result<Site, WriteError> {
     let before = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
-    let archived_at = match archived {
-        None => before.archived_at.clone(),
-        Some(false) => None,
-        Some(true) => before
-            .archived_at
-            .clone()
-            .or_else(|| Some(super::now_rfc3339())),
-    };
+    let archived_at = archived_at_after(&before.archived_at, archived, super::now_rfc3339);
     if before.fields() == *fields && archived_at == before.archived_at {
         return Ok(before);
     }
@@ -147,29 +125,10 @@ pub async fn update(
     .bind(id)
     .execute(&mut *conn)
     .await
-    .map_err(|e| {
-        if is_unique_violation(&e) {
-            duplicate(&fields.name)
-        } else {
-            e.into()
-        }
-    })?;
+    .map_err(unique_as(|| duplicate(&fields.name)))?;
     let after = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
-    let action = match (&before.archived_at, &after.archived_at) {
-        (None, Some(_)) => "archive",
-        (Some(_), None) => "restore",
-        _ => "update",
-    };
-    audit::record(
-        conn,
-        actor,
-        action,
-        "site",
-        id,
-        Some(&snapshot(&before)),
-        Some(&snapshot(&after)),
-    )
-    .await?;
+    let action = change_action(&before.archived_at, &after.archived_at);
+    audit::changed(conn, actor, action, "site", id, &before, &after).await?;
     Ok(after)
 }
 

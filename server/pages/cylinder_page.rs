@@ -11,6 +11,7 @@ use crate::api::paging::{Params, pick_units};
 use crate::app::AppState;
 use crate::calc::quantity::Dimension;
 use crate::db::hoses::{self, Hose};
+use crate::pages::machine_page::function_text;
 use crate::pages::view::q;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -78,10 +79,7 @@ pub async fn show(
         id: c.id,
         machine_id: c.machine_id,
         unit_number: c.unit_number.clone(),
-        function: c
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        function: function_text(&c),
         size: size_text(&c, units),
         bore: length(c.bore_m),
         rod: length(c.rod_m),

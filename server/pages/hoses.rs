@@ -205,7 +205,7 @@ async fn save(
     id: Option<i64>,
     mut draft: Draft,
 ) -> Result<Hose, Vec<AppError>> {
-    let mut tx = state.db.begin().await.map_err(|e| vec![e.into()])?;
+    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| vec![e.into()])?;
     machine_from_cylinder(&mut tx, &mut draft)
         .await
         .map_err(|e| vec![e])?;
@@ -306,7 +306,7 @@ async fn archive(State(state): State<AppState>, actor: Actor, Path(id): Path<Str
         Err(page) => return page,
     };
     let result: Result<(), AppError> = async {
-        let mut tx = state.db.begin().await?;
+        let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
         store::archive(&mut tx, &actor.name, hose.id).await?;
         tx.commit().await?;
         Ok(())

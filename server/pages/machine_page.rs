@@ -71,6 +71,13 @@ pub struct MachinePage {
     pub due: Vec<super::report_views::DueLine>,
 }
 
+/// What a cylinder does (`Boom lift`), else `Cylinder <id>`.
+pub fn function_text(c: &Cylinder) -> String {
+    c.function
+        .clone()
+        .unwrap_or_else(|| format!("Cylinder {}", c.id))
+}
+
 /// `bore × rod × stroke` in the display units, e.g. `100 × 56 × 600 mm`.
 pub fn size_text(c: &Cylinder, units: UnitSystem) -> String {
     let value = |si: f64| {
@@ -165,10 +172,7 @@ pub async fn show(
                 .collect();
             CylinderLine {
                 id: c.id,
-                function: c
-                    .function
-                    .clone()
-                    .unwrap_or_else(|| format!("Cylinder {}", c.id)),
+                function: function_text(c),
                 size: size_text(c, units),
                 load_direction: direction_words(&c.load_direction),
                 rated: q(c.rated_pressure_pa, Dimension::Pressure, units),

@@ -161,7 +161,7 @@ pub async fn generate_as_of(db: &Db, n: u32, today: Date) -> Result<Summary, Str
 async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<Counts, String> {
     let db_error = |e: sqlx::Error| format!("database error while generating: {e}");
     let mut writer = Writer::default();
-    let mut tx = conn.begin().await.map_err(db_error)?;
+    let mut tx = conn.begin_with("BEGIN IMMEDIATE").await.map_err(db_error)?;
     defer_foreign_keys(&mut tx).await.map_err(db_error)?;
     let opened = stamp_of(ctx.today - fleet::days(5 * 365 + 100));
     for site in &ctx.sites {
@@ -221,7 +221,7 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
                 .await
                 .map_err(db_error)?;
             tx.commit().await.map_err(db_error)?;
-            tx = conn.begin().await.map_err(db_error)?;
+            tx = conn.begin_with("BEGIN IMMEDIATE").await.map_err(db_error)?;
             defer_foreign_keys(&mut tx).await.map_err(db_error)?;
             since_commit = 0;
         }

@@ -15,9 +15,9 @@ const CASES: u32 = 384;
 fn odd_quantity() -> impl Strategy<Value = String> {
     let units = prop::sample::select(vec![
         "in", "mm", "m", "cm", "ft", "bar", "psi", "MPa", "kPa", "ksi", "Pa", "GPa", "lbf", "N",
-        "kN", "kip", "gpm", "L/min", "m3/s", "degC", "degF", "°C", "°F", "K", "s", "min", "h",
-        "L", "gal", "in3", "cc", "1/K", "1/degC", "in2", "mm2", "", "IN", "inch", "psig", "µm",
-        "mm mm", "/", "e", "%",
+        "kN", "kip", "gpm", "L/min", "m3/s", "degC", "degF", "°C", "°F", "K", "s", "min", "h", "L",
+        "gal", "in3", "cc", "1/K", "1/degC", "in2", "mm2", "", "IN", "inch", "psig", "µm", "mm mm",
+        "/", "e", "%",
     ]);
     let numbers = prop_oneof![
         any::<f64>().prop_map(|v| v.to_string()),
@@ -41,7 +41,8 @@ fn any_json() -> impl Strategy<Value = Value> {
         Just(Value::Null),
         any::<bool>().prop_map(Value::Bool),
         any::<i64>().prop_map(|n| json!(n)),
-        any::<f64>().prop_map(|v| serde_json::Number::from_f64(v).map_or(Value::Null, Value::Number)),
+        any::<f64>()
+            .prop_map(|v| serde_json::Number::from_f64(v).map_or(Value::Null, Value::Number)),
         odd_quantity().prop_map(Value::String),
         (any::<f64>(), odd_quantity()).prop_map(|(v, u)| json!({"value": v, "unit": u})),
         (odd_quantity(), any::<bool>()).prop_map(|(u, b)| json!({"value": u, "unit": b})),
@@ -165,7 +166,12 @@ fn mutate(mut body: Map<String, Value>, mutations: &[Mutation]) -> Value {
 }
 
 /// The checks every answer must pass.
-fn check_answer(path: &str, sent: &str, status: StatusCode, body: &Value) -> Result<(), TestCaseError> {
+fn check_answer(
+    path: &str,
+    sent: &str,
+    status: StatusCode,
+    body: &Value,
+) -> Result<(), TestCaseError> {
     prop_assert!(
         !status.is_server_error(),
         "{path} answered {status} to {sent}: {body}"
@@ -192,7 +198,10 @@ fn check_answer(path: &str, sent: &str, status: StatusCode, body: &Value) -> Res
             );
         }
     } else if status.is_success() {
-        prop_assert!(body.is_object(), "{path} {status}: body is not an object: {body}");
+        prop_assert!(
+            body.is_object(),
+            "{path} {status}: body is not an object: {body}"
+        );
         check_quantities(path, sent, body)?;
     }
     Ok(())
@@ -250,7 +259,11 @@ fn fuzz_route(path: &'static str, strategy: impl Strategy<Value = Value>, min_ac
         panic!("{path}: {failure}");
     }
     let share = f64::from(accepted.get()) / f64::from(total.get().max(1));
-    eprintln!("{path}: {} of {} generated bodies accepted", accepted.get(), total.get());
+    eprintln!(
+        "{path}: {} of {} generated bodies accepted",
+        accepted.get(),
+        total.get()
+    );
     assert!(
         share >= min_accepted,
         "{path}: only {} of {} generated bodies were accepted; the fuzzer is not reaching the handler",

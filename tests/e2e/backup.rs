@@ -4,7 +4,9 @@
 
 use crate::crash::{mixed, test_cylinder};
 use crate::server::{Server, TempDir, artifacts, cli, create_token, migrate};
-use crate::writers::{Ack, ack_count, assert_prefixes, integrity_check, spawn, stored_keys, wait_for_acks};
+use crate::writers::{
+    Ack, ack_count, assert_prefixes, integrity_check, spawn, stored_keys, wait_for_acks,
+};
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::{Arc, Mutex};
 
@@ -36,7 +38,11 @@ async fn a_backup_taken_under_write_load_is_sound_and_holds_a_consistent_prefix(
             ack_count(&ledger) > before.len(),
             "the writers kept writing while backup {round} ran"
         );
-        assert_eq!(integrity_check(&copy).await, vec!["ok".to_string()], "backup {round}");
+        assert_eq!(
+            integrity_check(&copy).await,
+            vec!["ok".to_string()],
+            "backup {round}"
+        );
         let stored = stored_keys(&copy).await;
         for ack in &before {
             assert!(
@@ -52,16 +58,28 @@ async fn a_backup_taken_under_write_load_is_sound_and_holds_a_consistent_prefix(
         writer.await.expect("writer task");
     }
     let unexpected = ledger.lock().expect("ledger").unexpected.clone();
-    assert!(unexpected.is_empty(), "non-2xx answers under load: {unexpected:?}");
+    assert!(
+        unexpected.is_empty(),
+        "non-2xx answers under load: {unexpected:?}"
+    );
 
     // A backup to an existing file name is refused rather than overwriting it.
     let existing = dir.path().join("backup-0.sqlite");
     let before = std::fs::read(&existing).expect("backup 0");
     let (ok, _, _) = cli(
-        &["backup", "--db", &db.display().to_string(), &existing.display().to_string()],
+        &[
+            "backup",
+            "--db",
+            &db.display().to_string(),
+            &existing.display().to_string(),
+        ],
         None,
     );
     assert!(!ok, "backup over an existing file must fail");
-    assert_eq!(std::fs::read(&existing).expect("backup 0"), before, "backup 0 untouched");
+    assert_eq!(
+        std::fs::read(&existing).expect("backup 0"),
+        before,
+        "backup 0 untouched"
+    );
     drop(server);
 }

@@ -109,7 +109,10 @@ impl Browser {
     async fn fit_viewport(&mut self, width: u32, height: u32) {
         let (mut w, mut h) = (width, height);
         for _ in 0..3 {
-            self.client.set_window_size(w, h).await.expect("set window size");
+            self.client
+                .set_window_size(w, h)
+                .await
+                .expect("set window size");
             let inner = self
                 .client
                 .execute("return [window.innerWidth, window.innerHeight];", vec![])
@@ -168,7 +171,10 @@ impl Browser {
     /// Clears a field and types into it, as a person would.
     pub async fn fill(&self, css: &str, text: &str) {
         let field = self.find(css).await;
-        field.clear().await.unwrap_or_else(|e| panic!("clear {css}: {e}"));
+        field
+            .clear()
+            .await
+            .unwrap_or_else(|e| panic!("clear {css}: {e}"));
         field
             .send_keys(text)
             .await
@@ -213,7 +219,10 @@ impl Browser {
             if path.starts_with(prefix) {
                 return path;
             }
-            assert!(Instant::now() < deadline, "still at {path}, expected {prefix}...");
+            assert!(
+                Instant::now() < deadline,
+                "still at {path}, expected {prefix}..."
+            );
             tokio::time::sleep(Duration::from_millis(50)).await;
         }
     }
@@ -235,7 +244,8 @@ impl Browser {
     /// Types into a quantity input and picks its unit (`{name}_unit` beside it).
     pub async fn quantity(&self, name: &str, number: &str, unit: &str) {
         self.fill(&format!("#f-{name}"), number).await;
-        self.select(&format!("select[name='{name}_unit']"), unit).await;
+        self.select(&format!("select[name='{name}_unit']"), unit)
+            .await;
     }
 
     /// Ends the session and chromedriver.

@@ -16,7 +16,7 @@ pub async fn test_cylinder(http: &Http) -> i64 {
     let machine = http
         .post_json(
             "/api/v1/machines",
-            &json!({"unit_number": "CRASH-RIG", "kind": "boom lift"}),
+            &json!({"unit_number": "RIG-1", "kind": "boom lift"}),
         )
         .await
         .expect("machine");
@@ -37,7 +37,14 @@ pub async fn test_cylinder(http: &Http) -> i64 {
 /// Three machine writers and three drift-test writers.
 pub fn mixed(cylinder_id: i64) -> Vec<Kind> {
     let drift = Kind::DriftTest { cylinder_id };
-    vec![Kind::Machine, drift, Kind::Machine, drift, Kind::Machine, drift]
+    vec![
+        Kind::Machine,
+        drift,
+        Kind::Machine,
+        drift,
+        Kind::Machine,
+        drift,
+    ]
 }
 
 /// How many acknowledgements to wait for before the kill: varies from round to round so the
@@ -84,14 +91,21 @@ async fn every_acknowledged_record_survives_sigkills_mid_write() {
             ledger.unexpected
         );
         assert!(
-            ledger.acks.iter().any(|a| matches!(a.kind, Kind::DriftTest { .. }))
+            ledger
+                .acks
+                .iter()
+                .any(|a| matches!(a.kind, Kind::DriftTest { .. }))
                 && ledger.acks.iter().any(|a| matches!(a.kind, Kind::Machine)),
             "both kinds of record were written in round {round}"
         );
         acked.extend(ledger.acks);
         // Right after the kill the file is sound, holds every acknowledged record, and each
         // writer's records are a gap-free prefix of what it sent.
-        assert_eq!(integrity_check(&db).await, vec!["ok".to_string()], "round {round}");
+        assert_eq!(
+            integrity_check(&db).await,
+            vec!["ok".to_string()],
+            "round {round}"
+        );
         let stored = stored_keys(&db).await;
         for ack in &acked {
             assert!(
@@ -130,7 +144,10 @@ async fn the_storage_layer_commits_with_a_full_fsync_in_wal_mode() {
         .expect("journal_mode");
     pool.close().await;
     // SQLite's values: 0 OFF, 1 NORMAL, 2 FULL, 3 EXTRA (sqlite.org/pragma.html#pragma_synchronous).
-    assert!(synchronous >= 2, "PRAGMA synchronous = {synchronous}, want FULL (2) or EXTRA (3)");
+    assert!(
+        synchronous >= 2,
+        "PRAGMA synchronous = {synchronous}, want FULL (2) or EXTRA (3)"
+    );
     assert_eq!(journal, "wal");
 }
 
@@ -146,7 +163,10 @@ async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error
     let server = Server::start(&db, &out.join("server.log")).await;
     let http = server.http().with_bearer(&token);
     let made = http
-        .post_json("/api/v1/machines", &json!({"unit_number": "EDIT-1", "kind": "forklift"}))
+        .post_json(
+            "/api/v1/machines",
+            &json!({"unit_number": "EDIT-1", "kind": "forklift"}),
+        )
         .await
         .expect("create");
     assert_eq!(made.status, 201, "{}", made.text());
@@ -157,7 +177,8 @@ async fn concurrent_edits_of_one_machine_are_all_answered_without_a_server_error
         editors.push(tokio::spawn(async move {
             let mut answers = Vec::new();
             for i in 0..25 {
-                let body = json!({"description": format!("edit {i} by client {client} (test data)")});
+                let body =
+                    json!({"description": format!("edit {i} by client {client} (test data)")});
                 let reply = http
                     .send(
                         hyper::Method::PATCH,

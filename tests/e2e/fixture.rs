@@ -48,7 +48,9 @@ impl Demo {
         browser.fill("#username", username).await;
         browser.fill("#password", PASSWORD).await;
         browser.shot("login-form").await;
-        browser.click("form[action='/login'] button[type='submit']").await;
+        browser
+            .click("form[action='/login'] button[type='submit']")
+            .await;
         let text = browser.page_text().await;
         assert!(
             browser.path().await != "/login",

@@ -8,24 +8,43 @@ use crate::fixture::Demo;
 /// just below it.
 async fn error_beside(b: &Browser, field_box: &str, name: &str) -> String {
     let error = b.find(&format!("#err-{name}")).await;
-    assert!(error.is_displayed().await.unwrap_or(false), "the error of {name} is hidden");
+    assert!(
+        error.is_displayed().await.unwrap_or(false),
+        "the error of {name} is hidden"
+    );
     let text = error.text().await.unwrap_or_default();
-    assert!(text.trim().len() > 5, "the error of {name} says nothing: {text:?}");
+    assert!(
+        text.trim().len() > 5,
+        "the error of {name} says nothing: {text:?}"
+    );
     let input = b.find(&format!("#f-{name}")).await;
     assert_eq!(
         input.attr("aria-invalid").await.ok().flatten().as_deref(),
         Some("true"),
         "{name} is marked invalid for screen readers"
     );
-    let described = input.attr("aria-describedby").await.ok().flatten().unwrap_or_default();
-    assert!(described.contains(&format!("err-{name}")), "{name} points to its error");
+    let described = input
+        .attr("aria-describedby")
+        .await
+        .ok()
+        .flatten()
+        .unwrap_or_default();
+    assert!(
+        described.contains(&format!("err-{name}")),
+        "{name} points to its error"
+    );
     // Same box, and the error right under the input (not in a list at the top of the page).
     let boxed = b
         .find_all(&format!("{field_box}.has-error #f-{name}"))
         .await
         .len()
-        + b.find_all(&format!("{field_box}.has-error #err-{name}")).await.len();
-    assert_eq!(boxed, 2, "{name}'s input and error share a field box marked has-error");
+        + b.find_all(&format!("{field_box}.has-error #err-{name}"))
+            .await
+            .len();
+    assert_eq!(
+        boxed, 2,
+        "{name}'s input and error share a field box marked has-error"
+    );
     let (_, input_y, _, input_h) = input.rectangle().await.expect("input box");
     let (_, error_y, _, _) = error.rectangle().await.expect("error box");
     assert!(
@@ -38,8 +57,16 @@ async fn error_beside(b: &Browser, field_box: &str, name: &str) -> String {
 #[tokio::test]
 async fn the_machine_form_shows_each_error_beside_its_field_and_keeps_the_values() {
     let demo = Demo::start("form_errors_machine").await;
-    let taken = demo.admin.get("/api/v1/machines?limit=1").await.expect("machines").json();
-    let taken = taken["items"][0]["unit_number"].as_str().expect("a unit").to_string();
+    let taken = demo
+        .admin
+        .get("/api/v1/machines?limit=1")
+        .await
+        .expect("machines")
+        .json();
+    let taken = taken["items"][0]["unit_number"]
+        .as_str()
+        .expect("a unit")
+        .to_string();
     let mut b = Browser::open(demo.out.clone(), 768, 1024).await;
     demo.login(&mut b, "mgr.isla").await;
     b.goto(&demo.url("/machines/new")).await;
@@ -62,7 +89,13 @@ async fn the_machine_form_shows_each_error_beside_its_field_and_keeps_the_values
         ("relief_pressure", "very high"),
         ("hour_meter", "-12"),
     ] {
-        let value = b.find(&format!("#f-{name}")).await.prop("value").await.ok().flatten();
+        let value = b
+            .find(&format!("#f-{name}"))
+            .await
+            .prop("value")
+            .await
+            .ok()
+            .flatten();
         assert_eq!(value.as_deref(), Some(typed), "{name} kept its value");
     }
     // Fix the two, leave the duplicate unit number: now that is the one refused, beside it.
@@ -71,7 +104,10 @@ async fn the_machine_form_shows_each_error_beside_its_field_and_keeps_the_values
     b.click("form.record-form button[type='submit']").await;
     b.find(".form-errors").await;
     b.shot("duplicate-unit-refused").await;
-    assert!(b.find_all("#err-relief_pressure").await.is_empty(), "a fixed field is clean");
+    assert!(
+        b.find_all("#err-relief_pressure").await.is_empty(),
+        "a fixed field is clean"
+    );
     error_beside(&b, ".field", "unit_number").await;
     let machines = demo
         .admin
@@ -79,18 +115,28 @@ async fn the_machine_form_shows_each_error_beside_its_field_and_keeps_the_values
         .await
         .expect("machines")
         .json();
-    assert_eq!(machines["items"].as_array().map(Vec::len), Some(0), "nothing was stored");
+    assert_eq!(
+        machines["items"].as_array().map(Vec::len),
+        Some(0),
+        "nothing was stored"
+    );
     b.close().await;
 }
 
 #[tokio::test]
 async fn the_drift_test_form_shows_each_error_beside_its_field_on_a_tablet() {
     let demo = Demo::start("form_errors_drift").await;
-    let cylinders = demo.admin.get("/api/v1/cylinders?limit=1").await.expect("cylinders").json();
+    let cylinders = demo
+        .admin
+        .get("/api/v1/cylinders?limit=1")
+        .await
+        .expect("cylinders")
+        .json();
     let id = cylinders["items"][0]["id"].as_i64().expect("a cylinder");
     let mut b = Browser::open(demo.out.clone(), 768, 1024).await;
     demo.login(&mut b, "tech.rowan").await;
-    b.goto(&demo.url(&format!("/shop/cylinders/{id}/drift-test"))).await;
+    b.goto(&demo.url(&format!("/shop/cylinders/{id}/drift-test")))
+        .await;
     // No duration, an oil temperature that is not a number, a drift that is.
     b.quantity("drift", "2", "mm").await;
     b.quantity("oil_temperature_start", "50", "degC").await;
@@ -102,9 +148,22 @@ async fn the_drift_test_form_shows_each_error_beside_its_field_on_a_tablet() {
     error_beside(&b, ".shop-field", "duration").await;
     error_beside(&b, ".shop-field", "oil_temperature_end").await;
     let (fits, sizes) = b.fits_width().await;
-    assert!(fits, "the refused form scrolls sideways on a 768 px tablet: {sizes}");
-    for (name, typed) in [("drift", "2"), ("oil_temperature_start", "50"), ("oil_temperature_end", "warm")] {
-        let value = b.find(&format!("#f-{name}")).await.prop("value").await.ok().flatten();
+    assert!(
+        fits,
+        "the refused form scrolls sideways on a 768 px tablet: {sizes}"
+    );
+    for (name, typed) in [
+        ("drift", "2"),
+        ("oil_temperature_start", "50"),
+        ("oil_temperature_end", "warm"),
+    ] {
+        let value = b
+            .find(&format!("#f-{name}"))
+            .await
+            .prop("value")
+            .await
+            .ok()
+            .flatten();
         assert_eq!(value.as_deref(), Some(typed), "{name} kept its value");
     }
     let tests = demo
@@ -114,7 +173,11 @@ async fn the_drift_test_form_shows_each_error_beside_its_field_on_a_tablet() {
         .expect("tests")
         .json();
     assert!(
-        tests["items"].as_array().expect("items").iter().all(|t| t["technician"] != "Rowan Tesh"),
+        tests["items"]
+            .as_array()
+            .expect("items")
+            .iter()
+            .all(|t| t["technician"] != "Rowan Tesh"),
         "a refused form stores nothing"
     );
     b.close().await;

@@ -74,13 +74,20 @@ impl Http {
             builder = builder.header(name.as_str(), value.as_str());
         }
         if let Some(ct) = content_type {
-            builder = builder.header("content-type", HeaderValue::from_str(ct).map_err(|e| e.to_string())?);
+            builder = builder.header(
+                "content-type",
+                HeaderValue::from_str(ct).map_err(|e| e.to_string())?,
+            );
         }
         let request = builder
             .body(Full::new(Bytes::from(body)))
             .map_err(|e| e.to_string())?;
         let exchange = async {
-            let response = self.client.request(request).await.map_err(|e| e.to_string())?;
+            let response = self
+                .client
+                .request(request)
+                .await
+                .map_err(|e| e.to_string())?;
             let status = response.status().as_u16();
             let headers = response.headers().clone();
             let body = response

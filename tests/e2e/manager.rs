@@ -43,8 +43,18 @@ async fn a_manager_filters_the_due_list_by_site_and_downloads_its_csv() {
     b.click("form.report-filters button[type='submit']").await;
     b.wait_for_path("/reports/due").await;
     let deadline = Instant::now() + Duration::from_secs(10);
-    while !b.client.current_url().await.expect("url").as_str().contains("site=") {
-        assert!(Instant::now() < deadline, "the filter form did not load a filtered list");
+    while !b
+        .client
+        .current_url()
+        .await
+        .expect("url")
+        .as_str()
+        .contains("site=")
+    {
+        assert!(
+            Instant::now() < deadline,
+            "the filter form did not load a filtered list"
+        );
         tokio::time::sleep(Duration::from_millis(50)).await;
     }
     b.find("table.report").await;
@@ -58,12 +68,18 @@ async fn a_manager_filters_the_due_list_by_site_and_downloads_its_csv() {
             .await
             .expect("cells");
         let site = cells[2].text().await.unwrap_or_default();
-        assert_eq!(site.trim(), site_name, "a row of another site in the filtered list");
+        assert_eq!(
+            site.trim(),
+            site_name,
+            "a row of another site in the filtered list"
+        );
         units_on_page.push(cells[1].text().await.unwrap_or_default().trim().to_string());
     }
     let api = demo
         .admin
-        .get(&format!("/api/v1/reports/due?site={site_id}&within_days=60"))
+        .get(&format!(
+            "/api/v1/reports/due?site={site_id}&within_days=60"
+        ))
         .await
         .expect("due JSON")
         .json();
@@ -73,7 +89,10 @@ async fn a_manager_filters_the_due_list_by_site_and_downloads_its_csv() {
         .iter()
         .map(|i| i["unit_number"].as_str().unwrap_or_default().to_string())
         .collect();
-    assert_eq!(units_on_page, api_units, "page rows vs the API's due list, in order");
+    assert_eq!(
+        units_on_page, api_units,
+        "page rows vs the API's due list, in order"
+    );
     let everywhere = demo
         .admin
         .get("/api/v1/reports/due?within_days=60")
@@ -93,7 +112,10 @@ async fn a_manager_filters_the_due_list_by_site_and_downloads_its_csv() {
         .await
         .expect("href")
         .expect("CSV link");
-    assert!(href.contains(&format!("site={site_id}")), "the CSV link keeps the filter: {href}");
+    assert!(
+        href.contains(&format!("site={site_id}")),
+        "the CSV link keeps the filter: {href}"
+    );
     b.click("a[href*='format=csv']").await;
     let csv_path = wait_for_download(&b.downloads).await;
     b.shot("after-download").await;
@@ -102,14 +124,39 @@ async fn a_manager_filters_the_due_list_by_site_and_downloads_its_csv() {
     assert!(text.contains("\r\n"), "RFC 4180 line ends are CRLF");
     let mut lines = text.split("\r\n").filter(|l| !l.is_empty());
     let header: Vec<&str> = lines.next().expect("header row").split(',').collect();
-    for column in ["kind", "machine_id", "unit_number", "cylinder_id", "hose_id", "due_on", "due_at_hours", "overdue", "basis"] {
-        assert!(header.contains(&column), "CSV header lacks {column}: {header:?}");
+    for column in [
+        "kind",
+        "machine_id",
+        "unit_number",
+        "cylinder_id",
+        "hose_id",
+        "due_on",
+        "due_at_hours",
+        "overdue",
+        "basis",
+    ] {
+        assert!(
+            header.contains(&column),
+            "CSV header lacks {column}: {header:?}"
+        );
     }
-    let unit_col = header.iter().position(|h| *h == "unit_number").expect("unit column");
+    let unit_col = header
+        .iter()
+        .position(|h| *h == "unit_number")
+        .expect("unit column");
     let csv_units: Vec<String> = lines
-        .map(|l| l.split(',').nth(unit_col).unwrap_or_default().trim_matches('"').to_string())
+        .map(|l| {
+            l.split(',')
+                .nth(unit_col)
+                .unwrap_or_default()
+                .trim_matches('"')
+                .to_string()
+        })
         .collect();
-    assert_eq!(csv_units, api_units, "CSV rows vs the API's due list, in order");
+    assert_eq!(
+        csv_units, api_units,
+        "CSV rows vs the API's due list, in order"
+    );
     let distinct: BTreeSet<&String> = csv_units.iter().collect();
     assert!(!distinct.is_empty());
     b.close().await;
@@ -127,7 +174,11 @@ async fn wait_for_download(dir: &std::path::Path) -> std::path::PathBuf {
         if let Some(path) = found {
             return path;
         }
-        assert!(Instant::now() < deadline, "no CSV arrived in {}", dir.display());
+        assert!(
+            Instant::now() < deadline,
+            "no CSV arrived in {}",
+            dir.display()
+        );
         tokio::time::sleep(Duration::from_millis(100)).await;
     }
 }

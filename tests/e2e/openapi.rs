@@ -31,7 +31,9 @@ fn routes_in_source() -> BTreeSet<(String, String)> {
     found
 }
 
-const METHODS: &[&str] = &["get", "post", "put", "patch", "delete", "head", "options", "any"];
+const METHODS: &[&str] = &[
+    "get", "post", "put", "patch", "delete", "head", "options", "any",
+];
 
 fn routes_in(source: &str, file: &Path) -> Vec<(String, String)> {
     let mut out = Vec::new();
@@ -67,9 +69,18 @@ fn routes_in(source: &str, file: &Path) -> Vec<(String, String)> {
                 }
             }
         }
-        assert!(!methods.is_empty(), "{}: no method for {path}", file.display());
+        assert!(
+            !methods.is_empty(),
+            "{}: no method for {path}",
+            file.display()
+        );
         for m in methods {
-            assert_ne!(m, "any", "{}: {path} takes any method; the spec cannot say which", file.display());
+            assert_ne!(
+                m,
+                "any",
+                "{}: {path} takes any method; the spec cannot say which",
+                file.display()
+            );
             out.push((m, path.to_string()));
         }
     }
@@ -129,17 +140,30 @@ async fn served() -> (TempDir, Server, Http, Value) {
     let token = create_token(&db, "openapi contract", "admin");
     let server = Server::start(&db, &out.join("server.log")).await;
     let http = server.http().with_bearer(&token);
-    let reply = server.http().get("/api/v1/openapi.json").await.expect("GET spec");
+    let reply = server
+        .http()
+        .get("/api/v1/openapi.json")
+        .await
+        .expect("GET spec");
     assert_eq!(reply.status, 200, "the spec is served without a login");
     assert!(
-        reply.header("content-type").is_some_and(|c| c.starts_with("application/json")),
+        reply
+            .header("content-type")
+            .is_some_and(|c| c.starts_with("application/json")),
         "{:?}",
         reply.headers
     );
     let spec = reply.json();
     // The demo has no procedure yet; one is needed for `/api/v1/procedures/{id}`.
-    let procedures = http.get("/api/v1/procedures").await.expect("procedures").json();
-    if procedures["items"].as_array().is_none_or(|items| items.is_empty()) {
+    let procedures = http
+        .get("/api/v1/procedures")
+        .await
+        .expect("procedures")
+        .json();
+    if procedures["items"]
+        .as_array()
+        .is_none_or(|items| items.is_empty())
+    {
         let made = http
             .post_json(
                 "/api/v1/procedures",
@@ -158,17 +182,29 @@ async fn served() -> (TempDir, Server, Http, Value) {
 async fn the_spec_lists_every_json_route_of_the_router_and_nothing_else() {
     let (_dir, _server, _http, spec) = served().await;
     assert!(
-        spec["openapi"].as_str().is_some_and(|v| v.starts_with("3.1")),
+        spec["openapi"]
+            .as_str()
+            .is_some_and(|v| v.starts_with("3.1")),
         "OpenAPI version: {}",
         spec["openapi"]
     );
     let in_source = routes_in_source();
-    assert!(in_source.len() > 20, "found only {} routes in the source", in_source.len());
+    assert!(
+        in_source.len() > 20,
+        "found only {} routes in the source",
+        in_source.len()
+    );
     let in_spec = operations(&spec);
     let missing: Vec<_> = in_source.difference(&in_spec).collect();
     let extra: Vec<_> = in_spec.difference(&in_source).collect();
-    assert!(missing.is_empty(), "routes with no operation in the spec: {missing:?}");
-    assert!(extra.is_empty(), "operations in the spec with no route: {extra:?}");
+    assert!(
+        missing.is_empty(),
+        "routes with no operation in the spec: {missing:?}"
+    );
+    assert!(
+        extra.is_empty(),
+        "operations in the spec with no route: {extra:?}"
+    );
 
     // Every reference points at a schema that exists.
     let text = spec.to_string();
@@ -242,13 +278,21 @@ async fn every_request_schema_names_exactly_the_fields_and_parameters_the_server
 
         // Body fields: a stranger is refused with the list of accepted fields.
         if has_body {
-            let schema = resolve(&spec, &op["requestBody"]["content"]["application/json"]["schema"]);
+            let schema = resolve(
+                &spec,
+                &op["requestBody"]["content"]["application/json"]["schema"],
+            );
             let documented: BTreeSet<String> = schema["properties"]
                 .as_object()
                 .map(|p| p.keys().cloned().collect())
                 .unwrap_or_default();
             let reply = http
-                .send(method(&verb), &url, Some("application/json"), json!({"zz_probe": 1}).to_string().into_bytes())
+                .send(
+                    method(&verb),
+                    &url,
+                    Some("application/json"),
+                    json!({"zz_probe": 1}).to_string().into_bytes(),
+                )
                 .await
                 .expect("probe body");
             let body = reply.json();
@@ -314,5 +358,9 @@ async fn every_request_schema_names_exactly_the_fields_and_parameters_the_server
             ));
         }
     }
-    assert!(problems.is_empty(), "spec and server disagree:\n{}", problems.join("\n"));
+    assert!(
+        problems.is_empty(),
+        "spec and server disagree:\n{}",
+        problems.join("\n")
+    );
 }

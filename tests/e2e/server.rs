@@ -65,7 +65,6 @@ pub fn free_port() -> u16 {
 pub struct Server {
     child: Option<Child>,
     pub addr: SocketAddr,
-    pub db: PathBuf,
     log: PathBuf,
 }
 
@@ -96,7 +95,6 @@ impl Server {
             let mut server = Server {
                 child: Some(child),
                 addr,
-                db: db.to_path_buf(),
                 log: log.to_path_buf(),
             };
             match server.wait_ready(Duration::from_secs(60)).await {
@@ -180,10 +178,11 @@ pub fn cli(args: &[&str], stdin: Option<&str>) -> (bool, String, String) {
         .stderr(Stdio::piped())
         .spawn()
         .expect("spawn loadhold cli");
-    if let Some(mut pipe) = child.stdin.take() {
-        if let Some(text) = stdin {
-            let _ = pipe.write_all(text.as_bytes());
-        }
+    // Standard input is closed after the text (or at once), so a reader sees its end.
+    if let Some(mut pipe) = child.stdin.take()
+        && let Some(text) = stdin
+    {
+        let _ = pipe.write_all(text.as_bytes());
     }
     let output = child.wait_with_output().expect("loadhold cli output");
     (
@@ -202,7 +201,13 @@ pub fn create_token(db: &Path, name: &str, role: &str) -> String {
         None,
     );
     assert!(ok, "loadhold token create failed: {stdout}{stderr}");
-    let token = stdout.trim().lines().last().unwrap_or("").trim().to_string();
+    let token = stdout
+        .trim()
+        .lines()
+        .last()
+        .unwrap_or("")
+        .trim()
+        .to_string();
     assert!(token.len() >= 20, "no token printed: {stdout:?} {stderr:?}");
     token
 }

@@ -34,7 +34,10 @@ async fn pick_cylinder(demo: &Demo) -> (Value, Value) {
 async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict() {
     let demo = Demo::start("technician_drift_test").await;
     let (machine, cylinder) = pick_cylinder(&demo).await;
-    let unit = machine["unit_number"].as_str().expect("unit number").to_string();
+    let unit = machine["unit_number"]
+        .as_str()
+        .expect("unit number")
+        .to_string();
     let cylinder_id = cylinder["id"].as_i64().expect("cylinder id");
     let mut b = Browser::open(demo.out.clone(), 768, 1024).await;
 
@@ -56,18 +59,31 @@ async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict()
         b.shot("units-found").await;
         b.click(&tile).await;
     }
-    b.wait_for_path(&format!("/shop/machines/{}", machine["id"])).await;
-    assert!(b.page_text().await.contains(&unit), "machine page names {unit}");
+    b.wait_for_path(&format!("/shop/machines/{}", machine["id"]))
+        .await;
+    assert!(
+        b.page_text().await.contains(&unit),
+        "machine page names {unit}"
+    );
     b.shot("unit-page").await;
 
     // Pick the cylinder, then the drift test.
-    b.click(&format!("a.tile[href='/shop/cylinders/{cylinder_id}']")).await;
-    b.wait_for_path(&format!("/shop/cylinders/{cylinder_id}")).await;
+    b.click(&format!("a.tile[href='/shop/cylinders/{cylinder_id}']"))
+        .await;
+    b.wait_for_path(&format!("/shop/cylinders/{cylinder_id}"))
+        .await;
     b.shot("cylinder-page").await;
-    b.click(&format!("a[href^='/shop/cylinders/{cylinder_id}/drift-test']")).await;
-    b.wait_for_path(&format!("/shop/cylinders/{cylinder_id}/drift-test")).await;
+    b.click(&format!(
+        "a[href^='/shop/cylinders/{cylinder_id}/drift-test']"
+    ))
+    .await;
+    b.wait_for_path(&format!("/shop/cylinders/{cylinder_id}/drift-test"))
+        .await;
     let (fits, sizes) = b.fits_width().await;
-    assert!(fits, "the drift-test form scrolls sideways on a 768 px tablet: {sizes}");
+    assert!(
+        fits,
+        "the drift-test form scrolls sideways on a 768 px tablet: {sizes}"
+    );
     b.shot("drift-form").await;
 
     // Readings of a test that cooled a little and settled 1.5 mm in 10 minutes (test data).
@@ -102,8 +118,15 @@ async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict()
     };
     b.shot("verdict").await;
     let (fits, sizes) = b.fits_width().await;
-    assert!(fits, "the result page scrolls sideways on a 768 px tablet: {sizes}");
-    assert_eq!(verdicts.len(), 2, "verdict and diagnosis lines: {verdicts:?}");
+    assert!(
+        fits,
+        "the result page scrolls sideways on a 768 px tablet: {sizes}"
+    );
+    assert_eq!(
+        verdicts.len(),
+        2,
+        "verdict and diagnosis lines: {verdicts:?}"
+    );
     let page = b.page_text().await;
     assert!(page.contains("Rowan Tesh"), "the record shows its signer");
     assert!(
@@ -124,12 +147,16 @@ async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict()
     let verdict = stored["verdict"].as_str().expect("verdict").to_string();
     let diagnosis = stored["diagnosis"].as_str().expect("diagnosis").to_string();
     assert!(
-        verdicts[0].to_lowercase().contains(&verdict.replace('_', " ")),
+        verdicts[0]
+            .to_lowercase()
+            .contains(&verdict.replace('_', " ")),
         "page verdict {:?} vs stored {verdict}",
         verdicts[0]
     );
     assert!(
-        verdicts[1].to_lowercase().contains(&diagnosis.replace('_', " ")),
+        verdicts[1]
+            .to_lowercase()
+            .contains(&diagnosis.replace('_', " ")),
         "page diagnosis {:?} vs stored {diagnosis}",
         verdicts[1]
     );
@@ -146,9 +173,12 @@ async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict()
     assert_ne!(diagnosis, "piston_seal_bypass", "{stored}");
 
     // Back on the cylinder, the history lists the new test.
-    b.goto(&demo.url(&format!("/shop/cylinders/{cylinder_id}"))).await;
+    b.goto(&demo.url(&format!("/shop/cylinders/{cylinder_id}")))
+        .await;
     assert!(
-        !b.find_all(&format!("a[href='/shop/drift-tests/{record_id}']")).await.is_empty(),
+        !b.find_all(&format!("a[href='/shop/drift-tests/{record_id}']"))
+            .await
+            .is_empty(),
         "the cylinder's history links the new test"
     );
     b.shot("history").await;

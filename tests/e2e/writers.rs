@@ -133,7 +133,11 @@ pub async fn wait_for_acks(ledger: &Shared, at_least: usize, log: impl Fn() -> S
     let deadline = Instant::now() + Duration::from_secs(120);
     while ack_count(ledger) < at_least {
         let unexpected = ledger.lock().expect("ledger").unexpected.clone();
-        assert!(unexpected.is_empty(), "writes failed: {unexpected:?}\n{}", log());
+        assert!(
+            unexpected.is_empty(),
+            "writes failed: {unexpected:?}\n{}",
+            log()
+        );
         assert!(
             Instant::now() < deadline,
             "only {} acknowledged writes in 120 s\n{}",
@@ -167,13 +171,14 @@ pub async fn integrity_check(path: &Path) -> Vec<String> {
 /// Every crash-test key stored in a SQLite file (machines' unit numbers, drift tests' tokens).
 pub async fn stored_keys(path: &Path) -> BTreeSet<String> {
     let mut conn = open_read_only(path).await;
-    let mut keys: BTreeSet<String> =
-        sqlx::query_scalar::<_, String>("SELECT unit_number FROM machines WHERE unit_number LIKE 'CRASH-%'")
-            .fetch_all(&mut conn)
-            .await
-            .expect("read machines")
-            .into_iter()
-            .collect();
+    let mut keys: BTreeSet<String> = sqlx::query_scalar::<_, String>(
+        "SELECT unit_number FROM machines WHERE unit_number LIKE 'CRASH-%'",
+    )
+    .fetch_all(&mut conn)
+    .await
+    .expect("read machines")
+    .into_iter()
+    .collect();
     keys.extend(
         sqlx::query_scalar::<_, String>(
             "SELECT client_token FROM drift_tests WHERE client_token LIKE 'CRASH-%'",
@@ -199,7 +204,10 @@ pub fn assert_prefixes(stored: &BTreeSet<String>, when: &str) {
     for (writer, mut seqs) in by_writer {
         seqs.sort_unstable();
         let expected: Vec<usize> = (0..seqs.len()).collect();
-        assert_eq!(seqs, expected, "writer {writer}'s records {when} have a gap");
+        assert_eq!(
+            seqs, expected,
+            "writer {writer}'s records {when} have a gap"
+        );
     }
 }
 

@@ -6,24 +6,58 @@ use crate::calc::quantity::Dimension as D;
 
 /// Fields of a cylinder calculation request.
 pub const CYLINDER: &[&str] = &[
-    "bore", "rod", "stroke", "position", "load", "load_direction", "bulk_modulus",
-    "oil_expansion", "supply_pressure", "flow", "cap_line_volume", "rod_line_volume",
-    "cap_line_expansion", "rod_line_expansion", "tube_outside_diameter", "tube_yield",
-    "tube_safety_factor", "temperature_rise", "pilot_ratio", "end_condition",
-    "buckling_length", "buckling_safety_factor", "ratings", "units",
+    "bore",
+    "rod",
+    "stroke",
+    "position",
+    "load",
+    "load_direction",
+    "bulk_modulus",
+    "oil_expansion",
+    "supply_pressure",
+    "flow",
+    "cap_line_volume",
+    "rod_line_volume",
+    "cap_line_expansion",
+    "rod_line_expansion",
+    "tube_outside_diameter",
+    "tube_yield",
+    "tube_safety_factor",
+    "temperature_rise",
+    "pilot_ratio",
+    "end_condition",
+    "buckling_length",
+    "buckling_safety_factor",
+    "ratings",
+    "units",
 ];
 
 /// The readings of a position-drift test.
 pub const DRIFT: &[&str] = &[
-    "duration", "drift", "start_position", "end_position", "oil_temperature_start",
-    "oil_temperature_end", "cap_pressure_start", "cap_pressure_end", "rod_pressure_start",
-    "rod_pressure_end", "limit",
+    "duration",
+    "drift",
+    "start_position",
+    "end_position",
+    "oil_temperature_start",
+    "oil_temperature_end",
+    "cap_pressure_start",
+    "cap_pressure_end",
+    "rod_pressure_start",
+    "rod_pressure_end",
+    "limit",
 ];
 
 /// The readings of a pressure-decay test.
 pub const DECAY: &[&str] = &[
-    "pressurised_end", "duration", "pressure_start", "pressure_end", "oil_temperature_start",
-    "oil_temperature_end", "other_pressure_start", "other_pressure_end", "limit",
+    "pressurised_end",
+    "duration",
+    "pressure_start",
+    "pressure_end",
+    "oil_temperature_start",
+    "oil_temperature_end",
+    "other_pressure_start",
+    "other_pressure_end",
+    "limit",
 ];
 
 /// The request schema of any calculation field (drift and decay `limit` differ: see
@@ -31,14 +65,23 @@ pub const DECAY: &[&str] = &[
 pub fn field(name: &str) -> S {
     match name {
         "bore" | "rod" | "stroke" => quantity_in(D::Length, false),
-        "position" | "tube_outside_diameter" | "buckling_length" | "start_position"
+        "position"
+        | "tube_outside_diameter"
+        | "buckling_length"
+        | "start_position"
         | "end_position" => opt_quantity_in(D::Length),
         "drift" => nullable(quantity_in(D::Length, true)),
         "load" => quantity_in(D::Force, false),
         "load_direction" => words(&["retract", "extend"]),
-        "bulk_modulus" | "supply_pressure" | "tube_yield" | "cap_pressure_start"
-        | "cap_pressure_end" | "rod_pressure_start" | "rod_pressure_end"
-        | "other_pressure_start" | "other_pressure_end" => opt_quantity_in(D::Pressure),
+        "bulk_modulus"
+        | "supply_pressure"
+        | "tube_yield"
+        | "cap_pressure_start"
+        | "cap_pressure_end"
+        | "rod_pressure_start"
+        | "rod_pressure_end"
+        | "other_pressure_start"
+        | "other_pressure_end" => opt_quantity_in(D::Pressure),
         "pressure_start" | "pressure_end" => quantity_in(D::Pressure, false),
         "oil_expansion" => opt_quantity_in(D::Expansion),
         "flow" => opt_quantity_in(D::Flow),
@@ -207,7 +250,12 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ("settle_drift", opt_quantity()),
                                 ("explanation", string()),
                             ],
-                            &["outcome", "final_pressure", "intensification_factor", "settle_drift"],
+                            &[
+                                "outcome",
+                                "final_pressure",
+                                "intensification_factor",
+                                "settle_drift",
+                            ],
                         ),
                     ),
                     (
@@ -227,7 +275,12 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 "retract_return_flow",
                                 "extend_return_flow",
                             ]),
-                            &["extend", "retract", "regenerative_extend", "retract_return_flow"],
+                            &[
+                                "extend",
+                                "retract",
+                                "regenerative_extend",
+                                "retract_return_flow",
+                            ],
                         )),
                     ),
                     (
@@ -252,7 +305,13 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     (
                         "trapped_oil_heating",
                         object(
-                            qs(&["temperature_rise", "cap_rise", "rod_rise", "cap_pressure", "rod_pressure"]),
+                            qs(&[
+                                "temperature_rise",
+                                "cap_rise",
+                                "rod_rise",
+                                "cap_pressure",
+                                "rod_pressure",
+                            ]),
                             &["temperature_rise", "cap_pressure", "rod_pressure"],
                         ),
                     ),
@@ -260,7 +319,12 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                         "tube",
                         nullable(object(
                             with(
-                                qs(&["pressure", "hoop_stress", "yield_strength", "allowable_stress"]),
+                                qs(&[
+                                    "pressure",
+                                    "hoop_stress",
+                                    "yield_strength",
+                                    "allowable_stress",
+                                ]),
                                 vec![
                                     ("safety_factor", number()),
                                     ("utilisation", number()),

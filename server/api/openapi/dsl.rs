@@ -3,10 +3,10 @@
 
 use crate::calc::quantity::{self, Dimension};
 use serde_json::Value;
+use utoipa::openapi::RefOr;
 use utoipa::openapi::schema::{
     AdditionalProperties, ArrayBuilder, ObjectBuilder, OneOfBuilder, Ref, Schema, SchemaType, Type,
 };
-use utoipa::openapi::RefOr;
 
 /// A schema or a reference to a named one.
 pub type S = RefOr<Schema>;
@@ -100,7 +100,9 @@ pub fn reference(name: &str) -> S {
 
 /// Any JSON value.
 pub fn any() -> S {
-    ObjectBuilder::new().schema_type(SchemaType::AnyValue).into()
+    ObjectBuilder::new()
+        .schema_type(SchemaType::AnyValue)
+        .into()
 }
 
 /// `schema` or `null`.
@@ -130,11 +132,18 @@ pub fn array(items: S) -> S {
 /// A list of at most `max` `items`.
 pub fn array_max(items: S, max: usize) -> S {
     RefOr::T(Schema::Array(
-        ArrayBuilder::new().items(items).max_items(Some(max)).build(),
+        ArrayBuilder::new()
+            .items(items)
+            .max_items(Some(max))
+            .build(),
     ))
 }
 
-fn with_props(mut builder: ObjectBuilder, props: Vec<(&str, S)>, required: &[&str]) -> ObjectBuilder {
+fn with_props(
+    mut builder: ObjectBuilder,
+    props: Vec<(&str, S)>,
+    required: &[&str],
+) -> ObjectBuilder {
     for (name, schema) in props {
         builder = builder.property(name, schema);
     }

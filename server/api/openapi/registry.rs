@@ -21,12 +21,20 @@ fn opt_date() -> S {
 }
 
 fn units_param(op: Op) -> Op {
-    op.query("units", words(&["us", "metric"]), "Display units of the answer's quantities.")
+    op.query(
+        "units",
+        words(&["us", "metric"]),
+        "Display units of the answer's quantities.",
+    )
 }
 
 fn paging(op: Op) -> Op {
     op.query("limit", int_range(1, 200), "Page size (default 50).")
-        .query("cursor", int_range(0, i64::MAX), "The next_cursor of the page before.")
+        .query(
+            "cursor",
+            int_range(0, i64::MAX),
+            "The next_cursor of the page before.",
+        )
         .query("archived", flag(), "Include archived records.")
 }
 
@@ -47,10 +55,22 @@ pub fn site_field(name: &str) -> S {
 pub const SITE: &[&str] = &["name", "units", "archived"];
 
 pub const MACHINE: &[&str] = &[
-    "unit_number", "site_id", "kind", "description", "serial", "status",
-    "out_of_service_reason", "out_of_service_since", "relief_pressure", "hour_meter",
-    "hour_meter_read_on", "periodic_interval_days", "periodic_interval_hours",
-    "frequent_interval_days", "archived", "units",
+    "unit_number",
+    "site_id",
+    "kind",
+    "description",
+    "serial",
+    "status",
+    "out_of_service_reason",
+    "out_of_service_since",
+    "relief_pressure",
+    "hour_meter",
+    "hour_meter_read_on",
+    "periodic_interval_days",
+    "periodic_interval_hours",
+    "frequent_interval_days",
+    "archived",
+    "units",
 ];
 
 pub fn machine_field(name: &str) -> S {
@@ -75,9 +95,23 @@ pub fn machine_field(name: &str) -> S {
 }
 
 pub const CYLINDER: &[&str] = &[
-    "machine_id", "function", "bore", "rod", "stroke", "load_direction", "max_load",
-    "holding_pressure", "rated_pressure", "tube_outside_diameter", "tube_yield",
-    "end_condition", "serial", "notes", "drift_test_interval_days", "archived", "units",
+    "machine_id",
+    "function",
+    "bore",
+    "rod",
+    "stroke",
+    "load_direction",
+    "max_load",
+    "holding_pressure",
+    "rated_pressure",
+    "tube_outside_diameter",
+    "tube_yield",
+    "end_condition",
+    "serial",
+    "notes",
+    "drift_test_interval_days",
+    "archived",
+    "units",
 ];
 
 pub fn cylinder_field(name: &str) -> S {
@@ -105,8 +139,20 @@ pub fn cylinder_field(name: &str) -> S {
 }
 
 pub const HOSE: &[&str] = &[
-    "machine_id", "cylinder_id", "port", "circuit", "spec", "size", "inside_diameter",
-    "length", "working_pressure", "made_in", "installed_on", "replace_by", "archived", "units",
+    "machine_id",
+    "cylinder_id",
+    "port",
+    "circuit",
+    "spec",
+    "size",
+    "inside_diameter",
+    "length",
+    "working_pressure",
+    "made_in",
+    "installed_on",
+    "replace_by",
+    "archived",
+    "units",
 ];
 
 pub fn hose_field(name: &str) -> S {
@@ -139,95 +185,193 @@ fn create_body(fields: &[&'static str], lookup: fn(&str) -> S, required: &[&str]
 pub fn operations() -> Vec<Op> {
     vec![
         // sites
-        paging(Op::get("/api/v1/sites", "registry", "List sites"))
-            .ok(200, "A page of sites.", page(reference("Site"))),
+        paging(Op::get("/api/v1/sites", "registry", "List sites")).ok(
+            200,
+            "A page of sites.",
+            page(reference("Site")),
+        ),
         Op::post("/api/v1/sites", "registry", "Register a site")
             .body(create_body(SITE, site_field, &["name"]))
             .errors(&[409])
             .ok(201, "The new site.", reference("Site")),
-        Op::get("/api/v1/sites/{id}", "registry", "One site").ok(200, "The site.", reference("Site")),
-        Op::patch("/api/v1/sites/{id}", "registry", "Change a site (only the fields sent)")
-            .body(create_body(SITE, site_field, &[]))
-            .errors(&[409])
-            .ok(200, "The site as changed.", reference("Site")),
+        Op::get("/api/v1/sites/{id}", "registry", "One site").ok(
+            200,
+            "The site.",
+            reference("Site"),
+        ),
+        Op::patch(
+            "/api/v1/sites/{id}",
+            "registry",
+            "Change a site (only the fields sent)",
+        )
+        .body(create_body(SITE, site_field, &[]))
+        .errors(&[409])
+        .ok(200, "The site as changed.", reference("Site")),
         // machines
-        units_param(paging(Op::get("/api/v1/machines", "registry", "List machines")))
-            .query("site", id(), "Only this site's machines.")
-            .query("status", words(&["in_service", "out_of_service"]), "Only machines in this status.")
-            .query("kind", string(), "Only machines of this kind.")
-            .query("q", string(), "Search unit number, description, serial.")
-            .ok(200, "A page of machines.", page(reference("Machine"))),
-        units_param(Op::post("/api/v1/machines", "registry", "Register a machine"))
-            .body(create_body(MACHINE, machine_field, &["unit_number", "kind"]))
-            .errors(&[409])
-            .ok(201, "The new machine.", reference("Machine")),
-        units_param(Op::get("/api/v1/machines/{id}", "registry", "One machine"))
-            .ok(200, "The machine.", reference("Machine")),
-        units_param(Op::patch("/api/v1/machines/{id}", "registry", "Change a machine (only the fields sent)"))
-            .body(create_body(MACHINE, machine_field, &[]))
-            .errors(&[409])
-            .ok(200, "The machine as changed.", reference("Machine")),
-        units_param(Op::delete("/api/v1/machines/{id}", "registry", "Archive a machine (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived machine.", reference("Machine")),
-        units_param(Op::post("/api/v1/machines/{id}/archive", "registry", "Archive a machine (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived machine.", reference("Machine")),
-        units_param(paging(Op::get("/api/v1/machines/{id}/cylinders", "registry", "A machine's cylinders")))
-            .query("q", string(), "Search function and serial.")
-            .ok(200, "A page of cylinders.", page(reference("Cylinder"))),
-        units_param(paging(Op::get("/api/v1/machines/{id}/hoses", "registry", "A machine's hoses")))
-            .query("q", string(), "Search spec, size, circuit.")
-            .ok(200, "A page of hoses.", page(reference("Hose"))),
+        units_param(paging(Op::get(
+            "/api/v1/machines",
+            "registry",
+            "List machines",
+        )))
+        .query("site", id(), "Only this site's machines.")
+        .query(
+            "status",
+            words(&["in_service", "out_of_service"]),
+            "Only machines in this status.",
+        )
+        .query("kind", string(), "Only machines of this kind.")
+        .query("q", string(), "Search unit number, description, serial.")
+        .ok(200, "A page of machines.", page(reference("Machine"))),
+        units_param(Op::post(
+            "/api/v1/machines",
+            "registry",
+            "Register a machine",
+        ))
+        .body(create_body(
+            MACHINE,
+            machine_field,
+            &["unit_number", "kind"],
+        ))
+        .errors(&[409])
+        .ok(201, "The new machine.", reference("Machine")),
+        units_param(Op::get("/api/v1/machines/{id}", "registry", "One machine")).ok(
+            200,
+            "The machine.",
+            reference("Machine"),
+        ),
+        units_param(Op::patch(
+            "/api/v1/machines/{id}",
+            "registry",
+            "Change a machine (only the fields sent)",
+        ))
+        .body(create_body(MACHINE, machine_field, &[]))
+        .errors(&[409])
+        .ok(200, "The machine as changed.", reference("Machine")),
+        units_param(Op::delete(
+            "/api/v1/machines/{id}",
+            "registry",
+            "Archive a machine (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived machine.", reference("Machine")),
+        units_param(Op::post(
+            "/api/v1/machines/{id}/archive",
+            "registry",
+            "Archive a machine (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived machine.", reference("Machine")),
+        units_param(paging(Op::get(
+            "/api/v1/machines/{id}/cylinders",
+            "registry",
+            "A machine's cylinders",
+        )))
+        .query("q", string(), "Search function and serial.")
+        .ok(200, "A page of cylinders.", page(reference("Cylinder"))),
+        units_param(paging(Op::get(
+            "/api/v1/machines/{id}/hoses",
+            "registry",
+            "A machine's hoses",
+        )))
+        .query("q", string(), "Search spec, size, circuit.")
+        .ok(200, "A page of hoses.", page(reference("Hose"))),
         // cylinders
-        units_param(paging(Op::get("/api/v1/cylinders", "registry", "List cylinders")))
-            .query("machine", id(), "Only this machine's cylinders.")
-            .query("site", id(), "Only cylinders at this site.")
-            .query("q", string(), "Search function and serial.")
-            .ok(200, "A page of cylinders.", page(reference("Cylinder"))),
-        units_param(Op::post("/api/v1/cylinders", "registry", "Register a cylinder"))
-            .body(create_body(
-                CYLINDER,
-                cylinder_field,
-                &["machine_id", "bore", "rod", "stroke", "load_direction"],
-            ))
-            .errors(&[409])
-            .ok(201, "The new cylinder.", reference("Cylinder")),
-        units_param(Op::get("/api/v1/cylinders/{id}", "registry", "One cylinder"))
-            .ok(200, "The cylinder.", reference("Cylinder")),
-        units_param(Op::patch("/api/v1/cylinders/{id}", "registry", "Change a cylinder (only the fields sent)"))
-            .body(create_body(CYLINDER, cylinder_field, &[]))
-            .errors(&[409])
-            .ok(200, "The cylinder as changed.", reference("Cylinder")),
-        units_param(Op::delete("/api/v1/cylinders/{id}", "registry", "Archive a cylinder (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived cylinder.", reference("Cylinder")),
-        units_param(Op::post("/api/v1/cylinders/{id}/archive", "registry", "Archive a cylinder (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived cylinder.", reference("Cylinder")),
+        units_param(paging(Op::get(
+            "/api/v1/cylinders",
+            "registry",
+            "List cylinders",
+        )))
+        .query("machine", id(), "Only this machine's cylinders.")
+        .query("site", id(), "Only cylinders at this site.")
+        .query("q", string(), "Search function and serial.")
+        .ok(200, "A page of cylinders.", page(reference("Cylinder"))),
+        units_param(Op::post(
+            "/api/v1/cylinders",
+            "registry",
+            "Register a cylinder",
+        ))
+        .body(create_body(
+            CYLINDER,
+            cylinder_field,
+            &["machine_id", "bore", "rod", "stroke", "load_direction"],
+        ))
+        .errors(&[409])
+        .ok(201, "The new cylinder.", reference("Cylinder")),
+        units_param(Op::get(
+            "/api/v1/cylinders/{id}",
+            "registry",
+            "One cylinder",
+        ))
+        .ok(200, "The cylinder.", reference("Cylinder")),
+        units_param(Op::patch(
+            "/api/v1/cylinders/{id}",
+            "registry",
+            "Change a cylinder (only the fields sent)",
+        ))
+        .body(create_body(CYLINDER, cylinder_field, &[]))
+        .errors(&[409])
+        .ok(200, "The cylinder as changed.", reference("Cylinder")),
+        units_param(Op::delete(
+            "/api/v1/cylinders/{id}",
+            "registry",
+            "Archive a cylinder (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived cylinder.", reference("Cylinder")),
+        units_param(Op::post(
+            "/api/v1/cylinders/{id}/archive",
+            "registry",
+            "Archive a cylinder (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived cylinder.", reference("Cylinder")),
         // hoses
-        units_param(paging(Op::get("/api/v1/hoses", "registry", "List hose assemblies")))
-            .query("machine", id(), "Only this machine's hoses.")
-            .query("cylinder", id(), "Only this cylinder's hoses.")
-            .query("site", id(), "Only hoses at this site.")
-            .query("q", string(), "Search spec, size, circuit.")
-            .ok(200, "A page of hoses.", page(reference("Hose"))),
-        units_param(Op::post("/api/v1/hoses", "registry", "Register a hose assembly"))
-            .body(create_body(HOSE, hose_field, &[]))
-            .errors(&[409])
-            .ok(201, "The new hose assembly.", reference("Hose")),
-        units_param(Op::get("/api/v1/hoses/{id}", "registry", "One hose assembly"))
-            .ok(200, "The hose assembly.", reference("Hose")),
-        units_param(Op::patch("/api/v1/hoses/{id}", "registry", "Change a hose assembly (only the fields sent)"))
-            .body(create_body(HOSE, hose_field, &[]))
-            .errors(&[409])
-            .ok(200, "The hose assembly as changed.", reference("Hose")),
-        units_param(Op::delete("/api/v1/hoses/{id}", "registry", "Archive a hose assembly (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived hose assembly.", reference("Hose")),
-        units_param(Op::post("/api/v1/hoses/{id}/archive", "registry", "Archive a hose assembly (never deleted)"))
-            .errors(&[409])
-            .ok(200, "The archived hose assembly.", reference("Hose")),
+        units_param(paging(Op::get(
+            "/api/v1/hoses",
+            "registry",
+            "List hose assemblies",
+        )))
+        .query("machine", id(), "Only this machine's hoses.")
+        .query("cylinder", id(), "Only this cylinder's hoses.")
+        .query("site", id(), "Only hoses at this site.")
+        .query("q", string(), "Search spec, size, circuit.")
+        .ok(200, "A page of hoses.", page(reference("Hose"))),
+        units_param(Op::post(
+            "/api/v1/hoses",
+            "registry",
+            "Register a hose assembly",
+        ))
+        .body(create_body(HOSE, hose_field, &[]))
+        .errors(&[409])
+        .ok(201, "The new hose assembly.", reference("Hose")),
+        units_param(Op::get(
+            "/api/v1/hoses/{id}",
+            "registry",
+            "One hose assembly",
+        ))
+        .ok(200, "The hose assembly.", reference("Hose")),
+        units_param(Op::patch(
+            "/api/v1/hoses/{id}",
+            "registry",
+            "Change a hose assembly (only the fields sent)",
+        ))
+        .body(create_body(HOSE, hose_field, &[]))
+        .errors(&[409])
+        .ok(200, "The hose assembly as changed.", reference("Hose")),
+        units_param(Op::delete(
+            "/api/v1/hoses/{id}",
+            "registry",
+            "Archive a hose assembly (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived hose assembly.", reference("Hose")),
+        units_param(Op::post(
+            "/api/v1/hoses/{id}/archive",
+            "registry",
+            "Archive a hose assembly (never deleted)",
+        ))
+        .errors(&[409])
+        .ok(200, "The archived hose assembly.", reference("Hose")),
     ]
 }
 
@@ -286,7 +430,15 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("hose_count", integer()),
                     ("units", words(&["us", "metric"])),
                 ],
-                &["id", "unit_number", "site_id", "kind", "status", "relief_pressure", "hour_meter"],
+                &[
+                    "id",
+                    "unit_number",
+                    "site_id",
+                    "kind",
+                    "status",
+                    "relief_pressure",
+                    "hour_meter",
+                ],
             ),
         ),
         (
@@ -313,7 +465,14 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("hose_count", integer()),
                     ("units", words(&["us", "metric"])),
                 ],
-                &["id", "machine_id", "bore", "rod", "stroke", "load_direction"],
+                &[
+                    "id",
+                    "machine_id",
+                    "bore",
+                    "rod",
+                    "stroke",
+                    "load_direction",
+                ],
             ),
         ),
         (
@@ -337,7 +496,14 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("replace_by", ostr()),
                     ("units", words(&["us", "metric"])),
                 ],
-                &["id", "machine_id", "cylinder_id", "port", "spec", "working_pressure"],
+                &[
+                    "id",
+                    "machine_id",
+                    "cylinder_id",
+                    "port",
+                    "spec",
+                    "working_pressure",
+                ],
             ),
         ),
     ]

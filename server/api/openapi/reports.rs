@@ -7,19 +7,35 @@ fn fleet(op: Op) -> Op {
     op.query("site", id(), "Only this site (an unknown site is refused).")
         .query("kind", string(), "Only machines of this kind.")
         .csv()
-        .query("format", words(&["json", "csv"]), "json (default) or csv (RFC 4180, header row).")
+        .query(
+            "format",
+            words(&["json", "csv"]),
+            "json (default) or csv (RFC 4180, header row).",
+        )
 }
 
 fn status(op: Op) -> Op {
-    op.query("status", words(&["in_service", "out_of_service"]), "Only machines in this status.")
+    op.query(
+        "status",
+        words(&["in_service", "out_of_service"]),
+        "Only machines in this status.",
+    )
 }
 
 fn as_of(op: Op) -> Op {
-    op.query("as_of", date(), "The day the list is for (default today, UTC).")
+    op.query(
+        "as_of",
+        date(),
+        "The day the list is for (default today, UTC).",
+    )
 }
 
 fn within_days(op: Op) -> Op {
-    op.query("within_days", int_range(0, 3660), "Look-ahead in days (default 30).")
+    op.query(
+        "within_days",
+        int_range(0, 3660),
+        "Look-ahead in days (default 30).",
+    )
 }
 
 pub fn operations() -> Vec<Op> {
@@ -205,7 +221,13 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ("pressure", quantity()),
                                 ("rating", quantity()),
                             ],
-                            &["machine_id", "cylinder_id", "scenario", "pressure", "rating"],
+                            &[
+                                "machine_id",
+                                "cylinder_id",
+                                "scenario",
+                                "pressure",
+                                "rating",
+                            ],
                         )),
                     ),
                     ("hoses", array(reference("HoseAge"))),

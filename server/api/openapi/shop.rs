@@ -9,19 +9,35 @@ use crate::calc::quantity::Dimension as D;
 /// Calculation fields a drift-test body may carry (geometry, ratings and supply come from
 /// the registry).
 pub const DRIFT_CALC: &[&str] = &[
-    "position", "load", "load_direction", "oil_expansion", "bulk_modulus",
-    "cap_line_volume", "rod_line_volume", "units",
+    "position",
+    "load",
+    "load_direction",
+    "oil_expansion",
+    "bulk_modulus",
+    "cap_line_volume",
+    "rod_line_volume",
+    "units",
 ];
 
 /// Calculation fields a decay-test body may carry.
 pub const DECAY_CALC: &[&str] = &[
-    "load", "load_direction", "oil_expansion", "bulk_modulus", "cap_line_volume",
-    "rod_line_volume", "units",
+    "load",
+    "load_direction",
+    "oil_expansion",
+    "bulk_modulus",
+    "cap_line_volume",
+    "rod_line_volume",
+    "units",
 ];
 
 /// Fields of the stored record itself.
 pub const RECORD: &[&str] = &[
-    "tested_at", "technician", "procedure_id", "client_token", "amends", "notes",
+    "tested_at",
+    "technician",
+    "procedure_id",
+    "client_token",
+    "amends",
+    "notes",
     "ambient_temperature",
 ];
 
@@ -68,7 +84,10 @@ fn inspection_field(name: &str) -> S {
             closed(
                 vec![
                     ("item", required_text(60)),
-                    ("outcome", words(&["ok", "attention", "fail", "not_checked"])),
+                    (
+                        "outcome",
+                        words(&["ok", "attention", "fail", "not_checked"]),
+                    ),
                     ("leakage_class", nullable(int_range(0, 5))),
                     ("note", nullable(text(500))),
                 ],
@@ -84,14 +103,35 @@ fn inspection_field(name: &str) -> S {
 }
 
 pub const INSPECTION: &[&str] = &[
-    "kind", "performed_on", "hour_meter", "inspector", "result", "items", "deficiencies",
-    "corrective_action", "client_token", "amends",
+    "kind",
+    "performed_on",
+    "hour_meter",
+    "inspector",
+    "result",
+    "items",
+    "deficiencies",
+    "corrective_action",
+    "client_token",
+    "amends",
 ];
 
 pub const PROCEDURE: &[&str] = &[
-    "kind", "name", "cylinder_id", "machine_kind", "hold_load", "posture", "measure_at",
-    "oil_temperature_min", "oil_temperature_max", "duration", "limit", "limit_table",
-    "oil_expansion", "notes", "units", "archived",
+    "kind",
+    "name",
+    "cylinder_id",
+    "machine_kind",
+    "hold_load",
+    "posture",
+    "measure_at",
+    "oil_temperature_min",
+    "oil_temperature_max",
+    "duration",
+    "limit",
+    "limit_table",
+    "oil_expansion",
+    "notes",
+    "units",
+    "archived",
 ];
 
 fn procedure_field(name: &str) -> S {
@@ -155,68 +195,162 @@ pub fn operations() -> Vec<Op> {
     let drift = all(&[calc::DRIFT, DRIFT_CALC, RECORD]);
     let decay = all(&[calc::DECAY, DECAY_CALC, RECORD]);
     vec![
-        Op::get("/api/v1/cylinders/{id}/drift-tests", "shop", "A cylinder's drift tests, oldest first")
-            .ok(200, "Every drift test of the cylinder, amended ones included.", page(reference("DriftTest"))),
-        Op::post("/api/v1/cylinders/{id}/drift-tests", "shop", "Record a drift test; it is analysed on the spot")
-            .body(closed(
-                pick(&drift, record_field),
-                &["duration", "oil_temperature_start", "oil_temperature_end", "technician"],
-            ))
-            .errors(&[409])
-            .ok(201, "The stored test with its analysis.", reference("DriftTest"))
-            .ok(200, "The test stored before under the same client_token.", reference("DriftTest")),
-        Op::get("/api/v1/drift-tests/{id}", "shop", "One drift test")
-            .ok(200, "The drift test.", reference("DriftTest")),
-        Op::get("/api/v1/cylinders/{id}/decay-tests", "shop", "A cylinder's pressure-decay tests")
-            .ok(200, "Every decay test of the cylinder.", page(reference("DecayTest"))),
-        Op::post("/api/v1/cylinders/{id}/decay-tests", "shop", "Record a pressure-decay test")
-            .body(closed(
-                pick(&decay, decay_record_field),
-                &[
-                    "pressurised_end",
-                    "duration",
-                    "pressure_start",
-                    "pressure_end",
-                    "oil_temperature_start",
-                    "oil_temperature_end",
-                    "technician",
-                ],
-            ))
-            .errors(&[409])
-            .ok(201, "The stored test with its analysis.", reference("DecayTest"))
-            .ok(200, "The test stored before under the same client_token.", reference("DecayTest")),
-        Op::get("/api/v1/decay-tests/{id}", "shop", "One pressure-decay test")
-            .ok(200, "The decay test.", reference("DecayTest")),
-        Op::get("/api/v1/machines/{id}/inspections", "shop", "A machine's inspections")
-            .ok(200, "Every inspection of the machine.", page(reference("Inspection"))),
-        Op::post("/api/v1/machines/{id}/inspections", "shop", "Record an inspection; a fail takes the machine out of service")
-            .body(closed(
-                pick(INSPECTION, inspection_field),
-                &["kind", "performed_on", "inspector", "result"],
-            ))
-            .errors(&[409])
-            .ok(201, "The stored inspection.", reference("Inspection"))
-            .ok(200, "The inspection stored before under the same client_token.", reference("Inspection")),
-        Op::get("/api/v1/inspections/{id}", "shop", "One inspection")
-            .ok(200, "The inspection.", reference("Inspection")),
+        Op::get(
+            "/api/v1/cylinders/{id}/drift-tests",
+            "shop",
+            "A cylinder's drift tests, oldest first",
+        )
+        .ok(
+            200,
+            "Every drift test of the cylinder, amended ones included.",
+            page(reference("DriftTest")),
+        ),
+        Op::post(
+            "/api/v1/cylinders/{id}/drift-tests",
+            "shop",
+            "Record a drift test; it is analysed on the spot",
+        )
+        .body(closed(
+            pick(&drift, record_field),
+            &[
+                "duration",
+                "oil_temperature_start",
+                "oil_temperature_end",
+                "technician",
+            ],
+        ))
+        .errors(&[409])
+        .ok(
+            201,
+            "The stored test with its analysis.",
+            reference("DriftTest"),
+        )
+        .ok(
+            200,
+            "The test stored before under the same client_token.",
+            reference("DriftTest"),
+        ),
+        Op::get("/api/v1/drift-tests/{id}", "shop", "One drift test").ok(
+            200,
+            "The drift test.",
+            reference("DriftTest"),
+        ),
+        Op::get(
+            "/api/v1/cylinders/{id}/decay-tests",
+            "shop",
+            "A cylinder's pressure-decay tests",
+        )
+        .ok(
+            200,
+            "Every decay test of the cylinder.",
+            page(reference("DecayTest")),
+        ),
+        Op::post(
+            "/api/v1/cylinders/{id}/decay-tests",
+            "shop",
+            "Record a pressure-decay test",
+        )
+        .body(closed(
+            pick(&decay, decay_record_field),
+            &[
+                "pressurised_end",
+                "duration",
+                "pressure_start",
+                "pressure_end",
+                "oil_temperature_start",
+                "oil_temperature_end",
+                "technician",
+            ],
+        ))
+        .errors(&[409])
+        .ok(
+            201,
+            "The stored test with its analysis.",
+            reference("DecayTest"),
+        )
+        .ok(
+            200,
+            "The test stored before under the same client_token.",
+            reference("DecayTest"),
+        ),
+        Op::get(
+            "/api/v1/decay-tests/{id}",
+            "shop",
+            "One pressure-decay test",
+        )
+        .ok(200, "The decay test.", reference("DecayTest")),
+        Op::get(
+            "/api/v1/machines/{id}/inspections",
+            "shop",
+            "A machine's inspections",
+        )
+        .ok(
+            200,
+            "Every inspection of the machine.",
+            page(reference("Inspection")),
+        ),
+        Op::post(
+            "/api/v1/machines/{id}/inspections",
+            "shop",
+            "Record an inspection; a fail takes the machine out of service",
+        )
+        .body(closed(
+            pick(INSPECTION, inspection_field),
+            &["kind", "performed_on", "inspector", "result"],
+        ))
+        .errors(&[409])
+        .ok(201, "The stored inspection.", reference("Inspection"))
+        .ok(
+            200,
+            "The inspection stored before under the same client_token.",
+            reference("Inspection"),
+        ),
+        Op::get("/api/v1/inspections/{id}", "shop", "One inspection").ok(
+            200,
+            "The inspection.",
+            reference("Inspection"),
+        ),
         Op::get("/api/v1/procedures", "shop", "List test procedures")
-            .query("kind", words(&["drift", "decay"]), "Only procedures of this kind.")
+            .query(
+                "kind",
+                words(&["drift", "decay"]),
+                "Only procedures of this kind.",
+            )
             .query("cylinder", id(), "Only this cylinder's own procedures.")
-            .query("machine_kind", string(), "Only procedures shared by this machine kind.")
+            .query(
+                "machine_kind",
+                string(),
+                "Only procedures shared by this machine kind.",
+            )
             .query("include_archived", flag(), "Include archived procedures.")
-            .query("units", words(&["us", "metric"]), "Display units of the answer's quantities.")
+            .query(
+                "units",
+                words(&["us", "metric"]),
+                "Display units of the answer's quantities.",
+            )
             .ok(200, "The procedures.", page(reference("Procedure"))),
         Op::post("/api/v1/procedures", "shop", "Write down a test procedure")
-            .body(closed(pick(PROCEDURE, procedure_field), &["name", "duration"]))
+            .body(closed(
+                pick(PROCEDURE, procedure_field),
+                &["name", "duration"],
+            ))
             .errors(&[409])
             .ok(201, "The new procedure.", reference("Procedure")),
         Op::get("/api/v1/procedures/{id}", "shop", "One test procedure")
-            .query("units", words(&["us", "metric"]), "Display units of the answer's quantities.")
+            .query(
+                "units",
+                words(&["us", "metric"]),
+                "Display units of the answer's quantities.",
+            )
             .ok(200, "The procedure.", reference("Procedure")),
-        Op::patch("/api/v1/procedures/{id}", "shop", "Change a procedure (only the fields sent)")
-            .body(closed(pick(PROCEDURE, procedure_field), &[]))
-            .errors(&[409])
-            .ok(200, "The procedure as changed.", reference("Procedure")),
+        Op::patch(
+            "/api/v1/procedures/{id}",
+            "shop",
+            "Change a procedure (only the fields sent)",
+        )
+        .body(closed(pick(PROCEDURE, procedure_field), &[]))
+        .errors(&[409])
+        .ok(200, "The procedure as changed.", reference("Procedure")),
     ]
 }
 
@@ -248,12 +382,25 @@ fn test_record(analysis: &str, extra: Vec<(&'static str, S)>) -> S {
     ];
     props.extend(extra);
     props.extend(amendments());
-    object(props, &["id", "cylinder_id", "tested_at", "technician", "analysis", "verdict"])
+    object(
+        props,
+        &[
+            "id",
+            "cylinder_id",
+            "tested_at",
+            "technician",
+            "analysis",
+            "verdict",
+        ],
+    )
 }
 
 pub fn schemas() -> Vec<(&'static str, S)> {
     let limit_out = |amount: &'static str| {
-        nullable(object(vec![(amount, opt_quantity()), ("per", opt_quantity())], &["per"]))
+        nullable(object(
+            vec![(amount, opt_quantity()), ("per", opt_quantity())],
+            &["per"],
+        ))
     };
     vec![
         (
@@ -291,7 +438,14 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     amendments(),
                 ]
                 .concat(),
-                &["id", "machine_id", "kind", "performed_on", "inspector", "result"],
+                &[
+                    "id",
+                    "machine_id",
+                    "kind",
+                    "performed_on",
+                    "inspector",
+                    "result",
+                ],
             ),
         ),
         (
@@ -310,7 +464,10 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("oil_temperature_max", opt_quantity()),
                     ("duration", quantity()),
                     ("limit", limit_out("distance")),
-                    ("limit_table", array(object(vec![("from", quantity()), ("per", quantity())], &[]))),
+                    (
+                        "limit_table",
+                        array(object(vec![("from", quantity()), ("per", quantity())], &[])),
+                    ),
                     ("oil_expansion", opt_quantity()),
                     ("notes", nullable(string())),
                     ("created_at", string()),

@@ -9,7 +9,7 @@ use crate::app::AppState;
 use crate::calc::quantity::Dimension;
 use crate::db::procedures;
 use crate::pages::ctx::PageCtx;
-use crate::pages::machine_page::{direction_words, size_text};
+use crate::pages::machine_page::{direction_words, function_text, size_text};
 use crate::pages::page_error;
 use crate::pages::view::q;
 use askama::Template;
@@ -62,10 +62,7 @@ pub async fn show(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<St
         id: c.id,
         machine_id: c.machine_id,
         unit_number: c.unit_number.clone(),
-        function: c
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        function: function_text(&c),
         size: size_text(&c, units),
         direction: direction_words(&c.load_direction),
         load: q(c.max_load_n, Dimension::Force, units),

@@ -4,7 +4,7 @@
 use super::form::{self, Field, Fields, new_client_token, now_local_input};
 use super::form::{form_field, summary_lines};
 use super::words::{ProcedureView, procedure_view};
-use super::{load_cylinder, redirect_to};
+use super::{load_cylinder, procedures_for, redirect_to};
 use crate::api::decay_tests::{prepare, store};
 use crate::api::paging::pick_units;
 use crate::app::AppState;
@@ -12,12 +12,11 @@ use crate::auth::Actor;
 use crate::calc::quantity::Dimension as D;
 use crate::db::cylinders::Cylinder;
 use crate::db::machines::Machine;
-use crate::db::procedures::{self, Procedure};
+use crate::db::procedures::Procedure;
 use crate::error::AppError;
 use crate::pages::ctx::PageCtx;
 use crate::pages::forms::{Posted, Values, refused};
-use crate::pages::machine_page::size_text;
-use crate::pages::page_error;
+use crate::pages::machine_page::{function_text, size_text};
 use crate::pages::view::FieldErrors;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -81,14 +80,8 @@ struct Context {
 
 async fn context(state: &AppState, id: &str, procedure: Option<i64>) -> Result<Context, Response> {
     let (cylinder, machine) = load_cylinder(state, id).await?;
-    let procedures = procedures::for_cylinder(&state.db, cylinder.id, &machine.kind, "decay")
-        .await
-        .map_err(|e| page_error(e.into()))?;
-    let procedure_id = match procedure {
-        Some(p) if procedures.iter().any(|x| x.id == p) => Some(p),
-        Some(_) => None,
-        None => procedures.first().map(|p| p.id),
-    };
+    let (procedures, procedure_id) =
+        procedures_for(state, (&cylinder, &machine), "decay", procedure).await?;
     Ok(Context {
         cylinder,
         machine,
@@ -152,10 +145,7 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dec
         cylinder_id: cyl.id,
         machine_id: cyl.machine_id,
         unit_number: cyl.unit_number.clone(),
-        function: cyl
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", cyl.id)),
+        function: function_text(cyl),
         size: size_text(cyl, units),
         selected: views.iter().find(|v| v.selected).cloned(),
         procedures: views,
@@ -193,37 +183,13 @@ pub async fn show_form(
 fn body_of(values: &Values) -> (Map<String, Value>, Vec<AppError>) {
     let mut map = form::to_json(values, QUANTITIES, TEXTS);
     let mut problems = Vec::new();
-    if let Some(text) = values.get("procedure_id").filter(|t| !t.trim().is_empty()) {
-        match text.trim().parse::<i64>() {
-            Ok(n) => {
-                map.insert("procedure_id".into(), Value::from(n));
-            }
-            Err(_) => problems.push(AppError::field(
-                "procedure_id",
-                "invalid",
-                "send the form from its page again",
-            )),
-        }
-    }
-    match (map.remove("limit_pressure"), map.remove("limit_per")) {
-        (Some(p), Some(per)) => {
-            map.insert(
-                "limit".into(),
-                serde_json::json!({"pressure": p, "per": per}),
-            );
-        }
-        (Some(_), None) => problems.push(AppError::field(
-            "limit_per",
-            "required",
-            "give the period the allowed drop is for",
-        )),
-        (None, Some(_)) => problems.push(AppError::field(
-            "limit_pressure",
-            "required",
-            "give the allowed drop for this period",
-        )),
-        (None, None) => {}
-    }
+    form::ids_into(values, &["procedure_id"], &mut map, &mut problems);
+    form::limit_into(
+        &mut map,
+        &mut problems,
+        ("limit_pressure", "pressure"),
+        "drop",
+    );
     (map, problems)
 }
 

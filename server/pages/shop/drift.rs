@@ -4,11 +4,11 @@
 
 use super::drift_page::{Context, first_values, page};
 use super::form::{self, form_field};
-use super::{load_cylinder, redirect_to};
+use super::{load_cylinder, procedures_for, redirect_to};
 use crate::api::drift_tests::{prepare, store};
 use crate::app::AppState;
 use crate::auth::Actor;
-use crate::db::{drift_tests, procedures};
+use crate::db::drift_tests;
 use crate::error::AppError;
 use crate::pages::ctx::PageCtx;
 use crate::pages::forms::{Posted, Values, refused};
@@ -59,14 +59,8 @@ async fn context(
     amends: Option<i64>,
 ) -> Result<Context, Response> {
     let (cylinder, machine) = load_cylinder(state, id).await?;
-    let procedures = procedures::for_cylinder(&state.db, cylinder.id, &machine.kind, "drift")
-        .await
-        .map_err(|e| page_error(e.into()))?;
-    let procedure_id = match procedure {
-        Some(p) if procedures.iter().any(|x| x.id == p) => Some(p),
-        Some(_) => None,
-        None => procedures.first().map(|p| p.id),
-    };
+    let (procedures, procedure_id) =
+        procedures_for(state, (&cylinder, &machine), "drift", procedure).await?;
     Ok(Context {
         cylinder,
         machine,
@@ -119,38 +113,13 @@ pub async fn show_form(
 pub fn body_of(values: &Values) -> (Map<String, Value>, Vec<AppError>) {
     let mut map = form::to_json(values, QUANTITIES, TEXTS);
     let mut problems = Vec::new();
-    for name in ["procedure_id", "amends"] {
-        if let Some(text) = values.get(name).filter(|t| !t.trim().is_empty()) {
-            match text.trim().parse::<i64>() {
-                Ok(n) => {
-                    map.insert(name.into(), Value::from(n));
-                }
-                Err(_) => problems.push(AppError::field(
-                    name,
-                    "invalid",
-                    "send the form from its page again",
-                )),
-            }
-        }
-    }
-    let distance = map.remove("limit_distance");
-    let per = map.remove("limit_per");
-    match (distance, per) {
-        (Some(d), Some(p)) => {
-            map.insert("limit".into(), serde_json::json!({"distance": d, "per": p}));
-        }
-        (Some(_), None) => problems.push(AppError::field(
-            "limit_per",
-            "required",
-            "give the period the allowed drift is for",
-        )),
-        (None, Some(_)) => problems.push(AppError::field(
-            "limit_distance",
-            "required",
-            "give the allowed drift for this period",
-        )),
-        (None, None) => {}
-    }
+    form::ids_into(values, &["procedure_id", "amends"], &mut map, &mut problems);
+    form::limit_into(
+        &mut map,
+        &mut problems,
+        ("limit_distance", "distance"),
+        "drift",
+    );
     (map, problems)
 }
 

@@ -13,7 +13,7 @@ use crate::db::machines::Machine;
 use crate::db::procedures::Procedure;
 use crate::pages::ctx::PageCtx;
 use crate::pages::forms::Values;
-use crate::pages::machine_page::{direction_words, size_text};
+use crate::pages::machine_page::{direction_words, function_text, size_text};
 use crate::pages::view::{FieldErrors, q};
 use askama::Template;
 use askama_web::WebTemplate;
@@ -212,10 +212,7 @@ pub fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) ->
         cylinder_id: cyl.id,
         machine_id: cyl.machine_id,
         unit_number: cyl.unit_number.clone(),
-        function: cyl
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", cyl.id)),
+        function: function_text(cyl),
         size: size_text(cyl, units),
         direction: direction_words(&cyl.load_direction),
         recorded_load: q(cyl.max_load_n, D::Force, units),

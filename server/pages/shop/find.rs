@@ -9,7 +9,7 @@ use crate::db::machines::{self, MachineFilter};
 use crate::db::page::Window;
 use crate::db::{cylinders, drift_tests, inspections};
 use crate::pages::ctx::PageCtx;
-use crate::pages::machine_page::size_text;
+use crate::pages::machine_page::{function_text, size_text};
 use crate::pages::page_error;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -155,10 +155,7 @@ pub async fn machine(
         let last = tests.iter().rev().find(|t| t.in_force());
         tiles.push(CylinderTile {
             id: c.id,
-            function: c
-                .function
-                .clone()
-                .unwrap_or_else(|| format!("Cylinder {}", c.id)),
+            function: function_text(c),
             size: size_text(c, units),
             last_verdict: last.map(|t| t.verdict.clone()).unwrap_or_default(),
             last_diagnosis: last.map(|t| t.diagnosis.clone()).unwrap_or_default(),

@@ -172,6 +172,60 @@ impl<'a> Fields<'a> {
     }
 }
 
+/// Copies the id inputs `names` into `map` as integers; one that does not parse means the
+/// form was not sent from its page, and is a problem naming the input.
+pub fn ids_into(
+    values: &Values,
+    names: &[&'static str],
+    map: &mut Map<String, Value>,
+    problems: &mut Vec<AppError>,
+) {
+    for name in names {
+        if let Some(text) = values.get(*name).filter(|t| !t.trim().is_empty()) {
+            match text.trim().parse::<i64>() {
+                Ok(n) => {
+                    map.insert((*name).into(), Value::from(n));
+                }
+                Err(_) => problems.push(AppError::field(
+                    *name,
+                    "invalid",
+                    "send the form from its page again",
+                )),
+            }
+        }
+    }
+}
+
+/// Joins the limit inputs (`amount`, `limit_per`) into the API's `limit` object as
+/// `{key: amount, "per": per}`; one given without the other is a problem naming the missing
+/// input. `what` is the allowed change in words (`drift`, `drop`).
+pub fn limit_into(
+    map: &mut Map<String, Value>,
+    problems: &mut Vec<AppError>,
+    (amount, key): (&'static str, &str),
+    what: &str,
+) {
+    match (map.remove(amount), map.remove("limit_per")) {
+        (Some(a), Some(per)) => {
+            let mut limit = Map::new();
+            limit.insert(key.into(), a);
+            limit.insert("per".into(), per);
+            map.insert("limit".into(), Value::Object(limit));
+        }
+        (Some(_), None) => problems.push(AppError::field(
+            "limit_per",
+            "required",
+            format!("give the period the allowed {what} is for"),
+        )),
+        (None, Some(_)) => problems.push(AppError::field(
+            amount,
+            "required",
+            format!("give the allowed {what} for this period"),
+        )),
+        (None, None) => {}
+    }
+}
+
 /// Reads posted values into the API's JSON object: each name in `quantities` becomes
 /// `"<number> <unit>"` with the unit chosen beside it when a bare number was typed (a number
 /// typed with its unit is kept as typed); each name in `texts` is copied; empty inputs are

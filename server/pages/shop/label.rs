@@ -8,6 +8,7 @@ use crate::app::AppState;
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::pages::ctx::PageCtx;
 use crate::pages::machine_page::direction_words;
+use crate::pages::machine_page::function_text;
 use crate::pages::view::q;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -114,10 +115,7 @@ pub async fn cylinder(
     LabelPage {
         ctx,
         unit_number: c.unit_number.clone(),
-        heading: c
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
+        heading: function_text(&c),
         lines,
         qr: qr::encode(&address),
         address,

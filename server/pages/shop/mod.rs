@@ -6,6 +6,7 @@ use crate::api::paging::path_id;
 use crate::app::AppState;
 use crate::db::cylinders::{self, Cylinder};
 use crate::db::machines::{self, Machine};
+use crate::db::procedures::{self, Procedure};
 use crate::error::AppError;
 use crate::pages::page_error;
 use axum::Router;
@@ -78,6 +79,25 @@ pub async fn load_cylinder(state: &AppState, id: &str) -> Result<(Cylinder, Mach
         .map_err(|e| page_error(e.into()))?
         .ok_or_else(|| page_error(AppError::not_found(format!("machine {}", c.machine_id))))?;
     Ok((c, m))
+}
+
+/// The `kind` procedures (`drift`, `decay`) that apply to a cylinder, and the one chosen: the
+/// `asked` one when it is among them (none when it is not), else the first.
+pub async fn procedures_for(
+    state: &AppState,
+    (cylinder, machine): (&Cylinder, &Machine),
+    kind: &str,
+    asked: Option<i64>,
+) -> Result<(Vec<Procedure>, Option<i64>), Response> {
+    let procedures = procedures::for_cylinder(&state.db, cylinder.id, &machine.kind, kind)
+        .await
+        .map_err(|e| page_error(e.into()))?;
+    let chosen = match asked {
+        Some(p) if procedures.iter().any(|x| x.id == p) => Some(p),
+        Some(_) => None,
+        None => procedures.first().map(|p| p.id),
+    };
+    Ok((procedures, chosen))
 }
 
 /// A machine from a path id, or the error page.

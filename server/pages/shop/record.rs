@@ -7,10 +7,12 @@ use super::words::{diagnosis_words, flags_words, qd, shown, texts, verdict_words
 use crate::api::paging::{path_id, pick_units};
 use crate::app::AppState;
 use crate::calc::quantity::Dimension as D;
+use crate::calc::quantity::UnitSystem;
+use crate::db::cylinders::Cylinder;
 use crate::db::{decay_tests, drift_tests};
 use crate::error::AppError;
 use crate::pages::ctx::PageCtx;
-use crate::pages::machine_page::size_text;
+use crate::pages::machine_page::{function_text, size_text};
 use crate::pages::page_error;
 use askama::Template;
 use askama_web::WebTemplate;
@@ -60,6 +62,11 @@ pub struct RecordQuery {
     pub repeat: Option<String>,
 }
 
+/// One reading as a labelled line, when it was taken.
+fn reading(label: &str, si: Option<f64>, d: D, units: UnitSystem) -> Option<(String, String)> {
+    si.map(|v| (label.to_string(), qd(Some(v), d, units)))
+}
+
 fn figures(analysis: &Value, keys: &[(&str, &str)]) -> Vec<(String, String)> {
     keys.iter()
         .filter(|(key, _)| !analysis[*key].is_null())
@@ -77,6 +84,74 @@ fn limit_text(analysis: &Value, amount: &str) -> Option<(String, String)> {
     })
 }
 
+/// What a stored test says of itself, for its page.
+struct Signed<'a> {
+    title: &'static str,
+    slug: &'static str,
+    id: i64,
+    verdict: &'a str,
+    diagnosis: &'a str,
+    flags: Vec<String>,
+    technician: &'a str,
+    tested_at: &'a str,
+    created_by: &'a str,
+    created_at: &'a str,
+    calc_version: &'a str,
+    notes: Option<&'a str>,
+    amends: Option<i64>,
+    amended_by: Option<i64>,
+}
+
+/// A stored record of kind `what` found by id, else 404.
+fn found<T>(row: Result<Option<T>, sqlx::Error>, what: &str, id: i64) -> Result<T, AppError> {
+    row?.ok_or_else(|| AppError::not_found(format!("{what} {id}")))
+}
+
+/// Labelled lines of a page (label, value).
+type Lines = Vec<(String, String)>;
+
+/// The page of a stored test of cylinder `c`, with its analysis `a` as stored.
+fn record_page(
+    ctx: PageCtx,
+    (c, units): (&Cylinder, UnitSystem),
+    t: Signed<'_>,
+    a: &Value,
+    (figures, readings): (Lines, Lines),
+    repeated: bool,
+) -> Response {
+    RecordPage {
+        ctx,
+        title: t.title,
+        id: t.id,
+        cylinder_id: c.id,
+        machine_id: c.machine_id,
+        unit_number: c.unit_number.clone(),
+        function: function_text(c),
+        size: size_text(c, units),
+        verdict_words: verdict_words(t.verdict),
+        verdict: t.verdict.to_string(),
+        diagnosis_words: diagnosis_words(t.diagnosis),
+        diagnosis: t.diagnosis.to_string(),
+        reasoning: texts(&a["reasoning"]),
+        hazards: texts(&a["hazards"]),
+        cautions: texts(&a["cautions"]),
+        flags: flags_words(&t.flags),
+        figures,
+        readings,
+        technician: t.technician.to_string(),
+        tested_at: when(t.tested_at),
+        created_by: t.created_by.to_string(),
+        created_at: when(t.created_at),
+        calc_version: t.calc_version.to_string(),
+        notes: t.notes.unwrap_or_default().to_string(),
+        amends: t.amends,
+        amended_by: t.amended_by,
+        slug: t.slug,
+        repeated,
+    }
+    .into_response()
+}
+
 /// `GET /shop/drift-tests/{id}`.
 pub async fn drift_test(
     State(state): State<AppState>,
@@ -84,19 +159,20 @@ pub async fn drift_test(
     Path(id): Path<String>,
     Query(query): Query<RecordQuery>,
 ) -> Response {
-    let id = match path_id(&id, "drift test") {
-        Ok(id) => id,
-        Err(e) => return page_error(e),
-    };
-    let t = match drift_tests::find(&state.db, id).await {
-        Ok(Some(t)) => t,
-        Ok(None) => return page_error(AppError::not_found(format!("drift test {id}"))),
-        Err(e) => return page_error(e.into()),
-    };
-    let (c, _) = match load_cylinder(&state, &t.cylinder_id.to_string()).await {
-        Ok(pair) => pair,
-        Err(page) => return page,
-    };
+    match drift_page(&state, ctx, &id, query).await {
+        Ok(page) | Err(page) => page,
+    }
+}
+
+async fn drift_page(
+    state: &AppState,
+    ctx: PageCtx,
+    id: &str,
+    query: RecordQuery,
+) -> Result<Response, Response> {
+    let id = path_id(id, "drift test").map_err(page_error)?;
+    let t = found(drift_tests::find(&state.db, id).await, "drift test", id).map_err(page_error)?;
+    let (c, _) = load_cylinder(state, &t.cylinder_id.to_string()).await?;
     let units = pick_units(None, c.site_units.as_deref());
     let a: Value = serde_json::from_str(&t.analysis_json).unwrap_or(Value::Null);
     let mut figs = figures(
@@ -114,9 +190,8 @@ pub async fn drift_test(
         ],
     );
     figs.extend(limit_text(&a, "distance"));
-    let opt =
-        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), qd(Some(v), d, units)));
-    let readings: Vec<(String, String)> = [
+    let opt = |label: &str, si: Option<f64>, d: D| reading(label, si, d, units);
+    let readings: Lines = [
         opt("Drift", t.drift_m, D::Length),
         opt("Start position", t.start_position_m, D::Length),
         opt("End position", t.end_position_m, D::Length),
@@ -137,40 +212,31 @@ pub async fn drift_test(
     .into_iter()
     .flatten()
     .collect();
-    RecordPage {
-        ctx,
+    let signed = Signed {
         title: "Drift test",
+        slug: "drift-test",
         id: t.id,
-        cylinder_id: c.id,
-        machine_id: c.machine_id,
-        unit_number: c.unit_number.clone(),
-        function: c
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
-        size: size_text(&c, units),
-        verdict_words: verdict_words(&t.verdict),
-        verdict: t.verdict.clone(),
-        diagnosis_words: diagnosis_words(&t.diagnosis),
-        diagnosis: t.diagnosis.clone(),
-        reasoning: texts(&a["reasoning"]),
-        hazards: texts(&a["hazards"]),
-        cautions: texts(&a["cautions"]),
-        flags: flags_words(&t.flag_list()),
-        figures: figs,
-        readings,
-        technician: t.technician.clone(),
-        tested_at: when(&t.tested_at),
-        created_by: t.created_by.clone(),
-        created_at: when(&t.created_at),
-        calc_version: t.calc_version.clone(),
-        notes: t.notes.clone().unwrap_or_default(),
+        verdict: &t.verdict,
+        diagnosis: &t.diagnosis,
+        flags: t.flag_list(),
+        technician: &t.technician,
+        tested_at: &t.tested_at,
+        created_by: &t.created_by,
+        created_at: &t.created_at,
+        calc_version: &t.calc_version,
+        notes: t.notes.as_deref(),
         amends: t.amends_id,
         amended_by: t.amended_by_id,
-        slug: "drift-test",
-        repeated: query.repeat.is_some(),
-    }
-    .into_response()
+    };
+    let repeated = query.repeat.is_some();
+    Ok(record_page(
+        ctx,
+        (&c, units),
+        signed,
+        &a,
+        (figs, readings),
+        repeated,
+    ))
 }
 
 /// `GET /shop/decay-tests/{id}`.
@@ -180,19 +246,20 @@ pub async fn decay_test(
     Path(id): Path<String>,
     Query(query): Query<RecordQuery>,
 ) -> Response {
-    let id = match path_id(&id, "decay test") {
-        Ok(id) => id,
-        Err(e) => return page_error(e),
-    };
-    let t = match decay_tests::find(&state.db, id).await {
-        Ok(Some(t)) => t,
-        Ok(None) => return page_error(AppError::not_found(format!("decay test {id}"))),
-        Err(e) => return page_error(e.into()),
-    };
-    let (c, _) = match load_cylinder(&state, &t.cylinder_id.to_string()).await {
-        Ok(pair) => pair,
-        Err(page) => return page,
-    };
+    match decay_page(&state, ctx, &id, query).await {
+        Ok(page) | Err(page) => page,
+    }
+}
+
+async fn decay_page(
+    state: &AppState,
+    ctx: PageCtx,
+    id: &str,
+    query: RecordQuery,
+) -> Result<Response, Response> {
+    let id = path_id(id, "decay test").map_err(page_error)?;
+    let t = found(decay_tests::find(&state.db, id).await, "decay test", id).map_err(page_error)?;
+    let (c, _) = load_cylinder(state, &t.cylinder_id.to_string()).await?;
     let units = pick_units(None, c.site_units.as_deref());
     let a: Value = serde_json::from_str(&t.analysis_json).unwrap_or(Value::Null);
     let mut figs = figures(
@@ -208,9 +275,8 @@ pub async fn decay_test(
         ],
     );
     figs.extend(limit_text(&a, "pressure"));
-    let p =
-        |label: &str, si: Option<f64>, d: D| si.map(|v| (label.to_string(), qd(Some(v), d, units)));
-    let readings: Vec<(String, String)> = [
+    let p = |label: &str, si: Option<f64>, d: D| reading(label, si, d, units);
+    let readings: Lines = [
         Some((
             "Pressurised end".to_string(),
             format!("{} end", t.pressurised_end),
@@ -231,38 +297,29 @@ pub async fn decay_test(
     .into_iter()
     .flatten()
     .collect();
-    RecordPage {
-        ctx,
+    let signed = Signed {
         title: "Pressure-decay test",
+        slug: "decay-test",
         id: t.id,
-        cylinder_id: c.id,
-        machine_id: c.machine_id,
-        unit_number: c.unit_number.clone(),
-        function: c
-            .function
-            .clone()
-            .unwrap_or_else(|| format!("Cylinder {}", c.id)),
-        size: size_text(&c, units),
-        verdict_words: verdict_words(&t.verdict),
-        verdict: t.verdict.clone(),
-        diagnosis_words: diagnosis_words(&t.diagnosis),
-        diagnosis: t.diagnosis.clone(),
-        reasoning: texts(&a["reasoning"]),
-        hazards: texts(&a["hazards"]),
-        cautions: texts(&a["cautions"]),
-        flags: flags_words(&t.flag_list()),
-        figures: figs,
-        readings,
-        technician: t.technician.clone(),
-        tested_at: when(&t.tested_at),
-        created_by: t.created_by.clone(),
-        created_at: when(&t.created_at),
-        calc_version: t.calc_version.clone(),
-        notes: t.notes.clone().unwrap_or_default(),
+        verdict: &t.verdict,
+        diagnosis: &t.diagnosis,
+        flags: t.flag_list(),
+        technician: &t.technician,
+        tested_at: &t.tested_at,
+        created_by: &t.created_by,
+        created_at: &t.created_at,
+        calc_version: &t.calc_version,
+        notes: t.notes.as_deref(),
         amends: t.amends_id,
         amended_by: t.amended_by_id,
-        slug: "decay-test",
-        repeated: query.repeat.is_some(),
-    }
-    .into_response()
+    };
+    let repeated = query.repeat.is_some();
+    Ok(record_page(
+        ctx,
+        (&c, units),
+        signed,
+        &a,
+        (figs, readings),
+        repeated,
+    ))
 }

@@ -7,7 +7,7 @@ use crate::api::inspections as api;
 use crate::db::cylinders::Cylinder;
 use crate::db::inspections;
 use crate::db::machines::Machine;
-use crate::db::{Db, drift_tests::Stored};
+use crate::db::{Db, records::Stored};
 use serde_json::{Value, json};
 use time::Date;
 
@@ -155,7 +155,7 @@ fn body(
 /// Stores the inspections of every machine in one transaction, oldest first per machine (a
 /// fail takes its machine out of service as it would in the shop); returns how many.
 pub async fn load(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<usize, String> {
-    let mut tx = db.begin().await.map_err(|e| e.to_string())?;
+    let mut tx = db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| e.to_string())?;
     let mut count = 0;
     for (m, _) in units {
         for (k, p) in plan(m).iter().enumerate() {

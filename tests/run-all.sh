@@ -7,12 +7,17 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 ROOT=$(pwd)
 START=$(date +%s)
-VENV="$ROOT/target/schemathesis-venv"
-ARTIFACTS="$ROOT/target/e2e-artifacts"
-SCHEMATHESIS_TIME=${SCHEMATHESIS_TIME:-240}
+TARGET="${CARGO_TARGET_DIR:-$ROOT/target}"
+VENV="$TARGET/schemathesis-venv"
+ARTIFACTS="$TARGET/e2e-artifacts"
+SCHEMATHESIS_TIME=${SCHEMATHESIS_TIME:-480}
 
 say() { printf '\n==> [%4ss] %s\n' "$(( $(date +%s) - START ))" "$*"; }
 die() { printf '\nFAIL: %s\n' "$*" >&2; exit 1; }
+# A suite that fails is recorded and the run goes on, so one run shows every failure; the
+# run still exits non-zero at the end.
+FAILED=()
+fail_later() { printf '\nFAIL: %s\n' "$*" >&2; FAILED+=("$*"); }
 
 as_root() {
     if [ "$(id -u)" -eq 0 ]; then "$@"
@@ -38,9 +43,16 @@ chromedriver --version
 
 if [ ! -x "$VENV/bin/schemathesis" ]; then
     say "installing schemathesis from PyPI into $VENV"
-    python3 -m venv "$VENV" || die "python3 -m venv failed (Debian: apt-get install python3-venv)"
+    if ! python3 -m venv "$VENV"; then
+        say "installing Debian python3-venv"
+        as_root apt-get update -qq
+        as_root env DEBIAN_FRONTEND=noninteractive apt-get install -y -qq python3-venv
+        rm -rf "$VENV"
+        python3 -m venv "$VENV" || die "python3 -m venv still fails"
+    fi
     "$VENV/bin/pip" install -q --upgrade pip
-    "$VENV/bin/pip" install -q schemathesis
+    # Pinned: the version these settings and the spec were checked with.
+    "$VENV/bin/pip" install -q "schemathesis==4.32.5"
 fi
 "$VENV/bin/schemathesis" --version || die "schemathesis does not run"
 
@@ -50,23 +62,23 @@ cargo build --bins --tests
 
 say "running every cargo test suite"
 rm -rf "$ARTIFACTS"
-TEST_LOG="$ROOT/target/run-all-cargo-test.log"
+TEST_LOG="$TARGET/run-all-cargo-test.log"
 set +e
 cargo test --no-fail-fast 2>&1 | tee "$TEST_LOG"
 CARGO_STATUS=${PIPESTATUS[0]}
 set -e
-[ "$CARGO_STATUS" -eq 0 ] || die "cargo test failed (see above and $TEST_LOG)"
+[ "$CARGO_STATUS" -eq 0 ] || fail_later "cargo test failed (see above and $TEST_LOG)"
 
 # Nothing silently skipped: every suite ran tests and none was ignored or filtered out.
 for suite in calc api e2e; do
-    grep -q "Running tests/$suite/main.rs" "$TEST_LOG" || die "suite $suite did not run"
+    grep -q "Running tests/$suite/main.rs" "$TEST_LOG" || fail_later "suite $suite did not run"
 done
 if grep -E '^test result:' "$TEST_LOG" | grep -vE ' 0 ignored; 0 measured; 0 filtered out' ; then
-    die "some tests were ignored or filtered out (lines above); run them or remove them"
+    fail_later "some tests were ignored or filtered out (lines above); run them or remove them"
 fi
 awk '/Running tests\//{suite=$2} /^test result:/{ if (suite != "" && $4 == "0") { print "suite " suite " ran zero tests"; bad=1 } suite="" } END{exit bad}' "$TEST_LOG" \
-    || die "a test suite ran zero tests"
-ls "$ARTIFACTS"/*/*.png >/dev/null 2>&1 || die "the browser suite left no screenshots in $ARTIFACTS"
+    || fail_later "a test suite ran zero tests"
+ls "$ARTIFACTS"/*/*.png >/dev/null 2>&1 || fail_later "the browser suite left no screenshots in $ARTIFACTS"
 
 # GET a URL with Python's standard library (no curl on a bare Debian): fetch URL [OUT]
 fetch() {
@@ -90,7 +102,7 @@ cleanup() {
     rm -rf "$WORK"
 }
 trap cleanup EXIT
-BIN="$ROOT/target/debug/loadhold"
+BIN="$TARGET/debug/loadhold"
 DB="$WORK/schemathesis.sqlite"
 PORT=$(python3 -c 'import socket; s=socket.socket(); s.bind(("127.0.0.1",0)); print(s.getsockname()[1])')
 "$BIN" seed-demo --db "$DB" >"$WORK/seed.log" 2>&1 || { cat "$WORK/seed.log"; die "seed-demo failed"; }
@@ -110,16 +122,23 @@ done
 fetch "http://127.0.0.1:$PORT/healthz" || die "the server never became healthy"
 fetch "http://127.0.0.1:$PORT/api/v1/openapi.json" "$ARTIFACTS/openapi.json" \
     || die "GET /api/v1/openapi.json failed"
+# One worker: with two, hypothesis's source inspection broke under CPython 3.11 ("AST
+# constructor recursion depth mismatch"). Concurrent writers are the e2e crash suite's job.
 set +e
 "$VENV/bin/schemathesis" --config-file "$ROOT/tests/schemathesis.toml" run "http://127.0.0.1:$PORT/api/v1/openapi.json" \
     --checks all --exclude-checks use_after_free \
-    --max-time "$SCHEMATHESIS_TIME" --seed 7 --workers 2 \
+    --max-time "$SCHEMATHESIS_TIME" --seed 7 --workers 1 \
     --report junit --report-dir "$ARTIFACTS/schemathesis" "${HEADERS[@]}"
 SCHEMA_STATUS=$?
 set -e
-[ "$SCHEMA_STATUS" -eq 0 ] || die "schemathesis found failures (report in $ARTIFACTS/schemathesis)"
+[ "$SCHEMA_STATUS" -eq 0 ] || fail_later "schemathesis found failures (report in $ARTIFACTS/schemathesis)"
 if grep -q ' panicked at ' "$ARTIFACTS/schemathesis-server.log"; then
-    die "the server panicked during schemathesis (see $ARTIFACTS/schemathesis-server.log)"
+    fail_later "the server panicked during schemathesis (see $ARTIFACTS/schemathesis-server.log)"
 fi
 
+if [ "${#FAILED[@]}" -gt 0 ]; then
+    say "FAILED: ${#FAILED[@]} problem(s)"
+    printf '  - %s\n' "${FAILED[@]}" >&2
+    exit 1
+fi
 say "all suites passed"

@@ -87,10 +87,8 @@ async fn not_found() -> Response {
 pub fn page_error(error: crate::error::AppError) -> Response {
     let status = error.status();
     let (_, message, _) = error.parts();
-    if status.is_server_error() {
-        if let crate::error::AppError::Internal(cause) = &error {
-            tracing::error!(%cause, "page failed");
-        }
+    if let crate::error::AppError::Internal(cause) = &error {
+        tracing::error!(%cause, "page failed");
     }
     error_page(
         status,

@@ -115,6 +115,7 @@ fn scale() -> impl Strategy<Value = f64> {
         Just(1e-9),
         Just(1e9),
         Just(1e300),
+        Just(1e306),
         any::<f64>(),
     ]
 }
@@ -207,15 +208,17 @@ fn check_answer(
     Ok(())
 }
 
-/// Every `{"si": ..}` quantity in a response carries a finite number.
+/// Every `{"si", "value", "unit"}` quantity in a response carries finite numbers.
 fn check_quantities(path: &str, sent: &str, value: &Value) -> Result<(), TestCaseError> {
     match value {
         Value::Object(map) => {
-            if let Some(si) = map.get("si") {
-                prop_assert!(
-                    si.as_f64().is_some_and(f64::is_finite),
-                    "{path}: a quantity lost its value ({si}) for {sent}: {value}"
-                );
+            if map.contains_key("si") {
+                for part in ["si", "value"] {
+                    prop_assert!(
+                        map[part].as_f64().is_some_and(f64::is_finite),
+                        "{path}: a quantity lost its {part} for {sent}: {value}"
+                    );
+                }
             }
             for inner in map.values() {
                 check_quantities(path, sent, inner)?;
@@ -235,11 +238,25 @@ fn check_quantities(path: &str, sent: &str, value: &Value) -> Result<(), TestCas
 /// share of cases that must be answered 2xx, so a run that never reaches the calculation or
 /// the store (everything refused at the door) fails instead of passing vacuously.
 fn fuzz_route(path: &'static str, strategy: impl Strategy<Value = Value>, min_accepted: f64) {
+    fuzz_route_after(path, strategy, min_accepted, &[]);
+}
+
+/// As [`fuzz_route`], after posting `setup` bodies (`(path, body)`, each must answer 201).
+fn fuzz_route_after(
+    path: &'static str,
+    strategy: impl Strategy<Value = Value>,
+    min_accepted: f64,
+    setup: &[(&str, Value)],
+) {
     let runtime = tokio::runtime::Builder::new_current_thread()
         .enable_all()
         .build()
         .expect("runtime");
     let app = runtime.block_on(TestApp::new());
+    for (setup_path, body) in setup {
+        let (status, answer) = runtime.block_on(app.post_json(setup_path, body));
+        assert_eq!(status, StatusCode::CREATED, "setup {setup_path}: {answer}");
+    }
     let mut runner = TestRunner::new(Config {
         cases: CASES,
         failure_persistence: None,
@@ -366,4 +383,27 @@ fn machine_create_survives_mutated_bodies() {
 #[test]
 fn machine_create_survives_raw_bytes() {
     fuzz_raw("/api/v1/machines");
+}
+
+fn valid_hose() -> Map<String, Value> {
+    let value = json!({
+        "machine_id": 1, "spec": "SAE 100R2AT", "size": "-12",
+        "inside_diameter": "19 mm", "length": "1.2 m", "working_pressure": "250 bar",
+        "made_in": "2024-Q2", "installed_on": "2024-06-01", "replace_by": "2030-06-01",
+        "circuit": "boom lift, cap end (fuzz target)"
+    });
+    value.as_object().cloned().unwrap_or_default()
+}
+
+#[test]
+fn hose_create_survives_mutated_bodies() {
+    fuzz_route_after(
+        "/api/v1/hoses",
+        mutated(valid_hose),
+        0.05,
+        &[(
+            "/api/v1/machines",
+            json!({"unit_number": "HV-FZ-H", "kind": "excavator"}),
+        )],
+    );
 }

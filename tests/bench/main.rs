@@ -7,7 +7,8 @@
 //! ```
 //! Options: `--sizes N,N`, `--seconds S` (measured time per phase, default 5), `--smoke`,
 //! `--out DIR` (default `tests/bench`; `target/bench-smoke` with `--smoke`), `--data DIR`
-//! (databases, default `target/bench-data`), `--keep` (keep the databases), `--bin PATH`.
+//! (databases, default `target/bench-data`; `$CARGO_TARGET_DIR` is honoured), `--keep`
+//! (keep the databases), `--bin PATH`.
 //! Smoke mode fails (exit 1) only when a phase could not run or a route answered wrongly;
 //! timings are never judged there.
 
@@ -61,6 +62,9 @@ pub struct Options {
 
 fn options() -> Result<Options, String> {
     let root = PathBuf::from(env!("CARGO_MANIFEST_DIR"));
+    let target = std::env::var_os("CARGO_TARGET_DIR")
+        .map(PathBuf::from)
+        .unwrap_or_else(|| root.join("target"));
     let args: Vec<String> = std::env::args()
         .skip(1)
         .filter(|a| a != "--bench")
@@ -69,7 +73,7 @@ fn options() -> Result<Options, String> {
         sizes: vec![1_000, 10_000, 100_000],
         smoke: false,
         out: root.join("tests/bench"),
-        data: root.join("target/bench-data"),
+        data: target.join("bench-data"),
         bin: server::default_binary(),
         keep: false,
         warmup: Duration::from_secs(1),
@@ -117,7 +121,7 @@ fn options() -> Result<Options, String> {
         o.measure = Duration::from_millis(700);
         o.due_requests = 3;
         if !out_given {
-            o.out = root.join("target/bench-smoke");
+            o.out = target.join("bench-smoke");
         }
     }
     Ok(o)

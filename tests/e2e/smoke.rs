@@ -50,16 +50,28 @@ async fn the_calculator_shows_the_seal_bypass_pressure_against_the_line_rating_o
     b.find(".hazard").await;
     b.shot("calculator-result").await;
     let (fits, sizes) = b.fits_width().await;
-    assert!(fits, "the calculator scrolls sideways on a 768 px tablet: {sizes}");
+    assert!(
+        fits,
+        "the calculator scrolls sideways on a 768 px tablet: {sizes}"
+    );
     let text = b.page_text().await;
     // Common practice (../shared/REFERENCES.md, trade facts): with the piston seal passing
     // and both ports blocked, a load pushing the rod in puts load / rod area on both ends:
     // 10,000 lbf / (pi x (2 in / 2)^2) = 3183.1 psi, above a 3000 psi line rating.
-    assert!(text.contains("3183 psi"), "bypass pressure on the page: {text}");
-    assert!(text.contains("above its rating of 3000 psi"), "the rating check is shown");
+    assert!(
+        text.contains("3183 psi"),
+        "bypass pressure on the page: {text}"
+    );
+    assert!(
+        text.contains("above its rating of 3000 psi"),
+        "the rating check is shown"
+    );
     let lower = text.to_lowercase();
     for caution in ["support", "relieve", "lockout", "injection"] {
-        assert!(lower.contains(caution), "the usual cautions ({caution}) stand beside the hazard");
+        assert!(
+            lower.contains(caution),
+            "the usual cautions ({caution}) stand beside the hazard"
+        );
     }
     b.close().await;
 }

@@ -12,6 +12,9 @@ use serde_json::{Map, Value};
 use time::Date;
 use time::macros::format_description;
 
+/// The largest magnitude of a quantity accepted, in SI units (1e12 Pa is 10 million bar).
+pub const MAX_SI: f64 = 1e12;
+
 /// A JSON object body. Refuses a missing or wrong content type (415 as 400-class JSON error),
 /// unreadable JSON and non-objects (400), before any field is looked at.
 pub struct Body(pub Map<String, Value>);
@@ -211,7 +214,18 @@ impl<'a> Fields<'a> {
                 ));
             }
         };
-        si.map(Some).map_err(|e| bad("invalid_quantity", e.message))
+        let si = si.map_err(|e| bad("invalid_quantity", e.message))?;
+        // Far beyond any machine (and beyond what a display unit can show without overflow).
+        if si.abs() > MAX_SI {
+            return Err(bad(
+                "out_of_range",
+                format!(
+                    "this {} is far outside any plausible value; check the number and its unit",
+                    dimension.name()
+                ),
+            ));
+        }
+        Ok(Some(si))
     }
 
     pub fn signed_quantity(&self, name: &str, dimension: Dimension) -> Result<f64, AppError> {
@@ -232,6 +246,14 @@ impl<'a> Fields<'a> {
             None => Ok(None),
             Some(Value::String(s)) => {
                 let s = s.trim();
+                // SQLite's length() stops at a NUL, so such text would break the table checks.
+                if s.contains('\0') {
+                    return Err(AppError::field(
+                        self.path(name),
+                        "invalid",
+                        "must not contain a NUL character",
+                    ));
+                }
                 if s.chars().count() > 2000 {
                     return Err(AppError::field(
                         self.path(name),

@@ -22,10 +22,13 @@ use utoipa::openapi::{
 };
 
 mod calc;
+mod calc_schemas;
 pub mod dsl;
 mod registry;
+mod registry_schemas;
 mod reports;
 mod shop;
+mod shop_schemas;
 
 pub fn router() -> Router<AppState> {
     Router::new().route("/api/v1/openapi.json", get(serve))
@@ -324,9 +327,9 @@ fn schemas() -> Vec<(&'static str, S)> {
         ),
     ]
     .into_iter()
-    .chain(calc::schemas())
-    .chain(registry::schemas())
-    .chain(shop::schemas())
+    .chain(calc_schemas::schemas())
+    .chain(registry_schemas::schemas())
+    .chain(shop_schemas::schemas())
     .chain(reports::schemas())
     .collect()
 }

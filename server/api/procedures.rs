@@ -164,12 +164,20 @@ fn read(
     }
     if changed("oil_temperature_min") {
         out.oil_temperature_min_k = p
-            .take(super::draft::positive(f, "oil_temperature_min", D::Temperature))
+            .take(super::draft::positive(
+                f,
+                "oil_temperature_min",
+                D::Temperature,
+            ))
             .flatten();
     }
     if changed("oil_temperature_max") {
         out.oil_temperature_max_k = p
-            .take(super::draft::positive(f, "oil_temperature_max", D::Temperature))
+            .take(super::draft::positive(
+                f,
+                "oil_temperature_max",
+                D::Temperature,
+            ))
             .flatten();
     }
     if changed("duration")

@@ -54,8 +54,12 @@ pub async fn cylinder_request(
     r.insert("stroke".into(), si(c.stroke_m, D::Length));
     r.insert("load_direction".into(), json!(c.load_direction));
     if !load_given {
-        let geometry = Geometry::new(c.bore_m, c.rod_m, c.stroke_m)
-            .map_err(|e| AppError::conflict("cylinder", format!("the registered geometry cannot be analysed: {}", e.message)))?;
+        let geometry = Geometry::new(c.bore_m, c.rod_m, c.stroke_m).map_err(|e| {
+            AppError::conflict(
+                "cylinder",
+                format!("the registered geometry cannot be analysed: {}", e.message),
+            )
+        })?;
         let direction = LoadDirection::parse(&c.load_direction).unwrap_or(LoadDirection::Retract);
         let load = c.max_load_n.or_else(|| {
             c.holding_pressure_pa

@@ -57,7 +57,7 @@ pub fn id() -> S {
 pub fn or_blank(schema: S) -> S {
     utoipa::openapi::schema::AnyOfBuilder::new()
         .item(schema)
-        .item(typed(Type::String).pattern(Some(r"^\s*$")))
+        .item(typed(Type::String).pattern(Some(r"^[\s\u0085]*$")))
         .into()
 }
 

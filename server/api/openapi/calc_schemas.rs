@@ -1,0 +1,264 @@
+//! The answers of the calculation routes: the engineering core's reports.
+
+use super::dsl::*;
+
+fn status() -> S {
+    words(&["ok", "low_margin", "exceeds"])
+}
+
+fn texts() -> S {
+    array(string())
+}
+
+pub fn schemas() -> Vec<(&'static str, S)> {
+    let qs = |names: &[&'static str]| -> Vec<(&'static str, S)> {
+        names.iter().map(|n| (*n, quantity())).collect()
+    };
+    let req = |names: &[&'static str]| names.to_vec();
+    let with = |mut a: Vec<(&'static str, S)>, b: Vec<(&'static str, S)>| {
+        a.extend(b);
+        a
+    };
+    vec![
+        (
+            "CylinderReport",
+            object(
+                vec![
+                    ("calc_version", string()),
+                    ("units", words(&["us", "metric"])),
+                    ("load_direction", words(&["retract", "extend"])),
+                    ("position", quantity()),
+                    (
+                        "areas",
+                        object(
+                            with(qs(&["cap", "rod", "annulus"]), vec![("ratio", number())]),
+                            &req(&["cap", "rod", "annulus", "ratio"]),
+                        ),
+                    ),
+                    ("volumes", object(qs(&["cap", "rod"]), &["cap", "rod"])),
+                    (
+                        "holding",
+                        object(
+                            with(
+                                vec![("holding_end", words(&["cap", "rod"]))],
+                                qs(&["cap_pressure", "rod_pressure"]),
+                            ),
+                            &["holding_end", "cap_pressure", "rod_pressure"],
+                        ),
+                    ),
+                    (
+                        "seal_bypass",
+                        object(
+                            vec![
+                                ("outcome", words(&["intensifies", "runs_away"])),
+                                ("final_pressure", opt_quantity()),
+                                ("intensification_factor", nullable(number())),
+                                ("settle_drift", opt_quantity()),
+                                ("explanation", string()),
+                            ],
+                            &[
+                                "outcome",
+                                "final_pressure",
+                                "intensification_factor",
+                                "settle_drift",
+                            ],
+                        ),
+                    ),
+                    (
+                        "rod_side_intensification",
+                        nullable(object(
+                            qs(&["supply_pressure", "rod_pressure"]),
+                            &["supply_pressure", "rod_pressure"],
+                        )),
+                    ),
+                    (
+                        "speeds",
+                        nullable(object(
+                            qs(&[
+                                "extend",
+                                "retract",
+                                "regenerative_extend",
+                                "retract_return_flow",
+                                "extend_return_flow",
+                            ]),
+                            &[
+                                "extend",
+                                "retract",
+                                "regenerative_extend",
+                                "retract_return_flow",
+                            ],
+                        )),
+                    ),
+                    (
+                        "forces",
+                        nullable(object(
+                            qs(&["extend", "retract", "regenerative_extend"]),
+                            &["extend", "retract", "regenerative_extend"],
+                        )),
+                    ),
+                    (
+                        "counterbalance",
+                        object(
+                            vec![
+                                ("setting", quantity()),
+                                ("load_pressure", quantity()),
+                                ("pilot_ratio", nullable(number())),
+                                ("pilot_opening_pressure", opt_quantity()),
+                            ],
+                            &["setting", "load_pressure"],
+                        ),
+                    ),
+                    (
+                        "trapped_oil_heating",
+                        object(
+                            qs(&[
+                                "temperature_rise",
+                                "cap_rise",
+                                "rod_rise",
+                                "cap_pressure",
+                                "rod_pressure",
+                            ]),
+                            &["temperature_rise", "cap_pressure", "rod_pressure"],
+                        ),
+                    ),
+                    (
+                        "tube",
+                        nullable(object(
+                            with(
+                                qs(&[
+                                    "pressure",
+                                    "hoop_stress",
+                                    "yield_strength",
+                                    "allowable_stress",
+                                ]),
+                                vec![
+                                    ("safety_factor", number()),
+                                    ("utilisation", number()),
+                                    ("status", status()),
+                                ],
+                            ),
+                            &["pressure", "hoop_stress", "status"],
+                        )),
+                    ),
+                    (
+                        "buckling",
+                        nullable(object(
+                            with(
+                                qs(&["length", "critical_load", "allowable_load", "load"]),
+                                vec![
+                                    ("end_condition", string()),
+                                    ("effective_length_factor", number()),
+                                    ("safety_factor", number()),
+                                    ("status", status()),
+                                ],
+                            ),
+                            &["critical_load", "status"],
+                        )),
+                    ),
+                    ("highest_pressure", quantity()),
+                    (
+                        "checks",
+                        array(object(
+                            vec![
+                                ("component", string()),
+                                ("scenario", string()),
+                                ("pressure", quantity()),
+                                ("rating", quantity()),
+                                ("status", status()),
+                            ],
+                            &["component", "scenario", "pressure", "rating", "status"],
+                        )),
+                    ),
+                    ("hazards", texts()),
+                    ("cautions", texts()),
+                ],
+                &[
+                    "areas",
+                    "holding",
+                    "seal_bypass",
+                    "rod_side_intensification",
+                    "speeds",
+                    "checks",
+                    "cautions",
+                ],
+            ),
+        ),
+        (
+            "DriftReport",
+            object(
+                with(
+                    qs(&[
+                        "drift",
+                        "duration",
+                        "temperature_change",
+                        "position",
+                        "drift_rate",
+                        "thermal_drift",
+                        "leak_drift",
+                        "leak_flow",
+                        "scaled_drift",
+                        "scaled_leak_drift",
+                        "scaled_per",
+                    ]),
+                    vec![
+                        ("calc_version", string()),
+                        ("units", words(&["us", "metric"])),
+                        (
+                            "limit",
+                            nullable(object(qs(&["distance", "per"]), &["distance", "per"])),
+                        ),
+                        ("verdict", string()),
+                        ("diagnosis", string()),
+                        ("reasoning", texts()),
+                        ("hazards", texts()),
+                        ("cautions", texts()),
+                    ],
+                ),
+                &[
+                    "drift_rate",
+                    "thermal_drift",
+                    "leak_drift",
+                    "leak_flow",
+                    "scaled_drift",
+                    "verdict",
+                    "diagnosis",
+                    "reasoning",
+                    "hazards",
+                    "cautions",
+                ],
+            ),
+        ),
+        (
+            "DecayReport",
+            object(
+                with(
+                    qs(&[
+                        "duration",
+                        "temperature_change",
+                        "oil_volume",
+                        "measured_change",
+                        "thermal_change",
+                        "leak_change",
+                        "leak_flow",
+                        "scaled_drop",
+                    ]),
+                    vec![
+                        ("calc_version", string()),
+                        ("units", words(&["us", "metric"])),
+                        ("pressurised_end", words(&["cap", "rod"])),
+                        (
+                            "limit",
+                            nullable(object(qs(&["pressure", "per"]), &["pressure", "per"])),
+                        ),
+                        ("verdict", string()),
+                        ("diagnosis", string()),
+                        ("reasoning", texts()),
+                        ("hazards", texts()),
+                        ("cautions", texts()),
+                    ],
+                ),
+                &["verdict", "diagnosis", "reasoning", "hazards", "cautions"],
+            ),
+        ),
+    ]
+}

@@ -198,8 +198,8 @@ fn missing(p: &mut Problems, name: &str, what: &str) {
     }
 }
 
-/// Checks the merged cylinder: required parts present, rod smaller than bore, tube outside
-/// diameter larger than the bore.
+/// Checks the merged cylinder: required parts present, rod smaller than bore, sizes the
+/// engineering core accepts, tube outside diameter larger than the bore.
 fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
     if c.machine_id.is_none() {
         missing(
@@ -236,6 +236,13 @@ fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
                 quantity::format(bore, Dimension::Length, UnitSystem::Metric)
             ),
         ));
+    }
+    // The registry keeps only cylinders the engineering core can analyse (its size limits).
+    if let (Some(bore), Some(rod), Some(stroke)) = (c.bore_m, c.rod_m, c.stroke_m)
+        && rod < bore
+        && let Err(e) = crate::calc::cylinder::Cylinder::new(bore, rod, stroke)
+    {
+        p.push(AppError::field(e.field, "out_of_range", e.message));
     }
     if let (Some(bore), Some(outside)) = (c.bore_m, c.tube_outside_diameter_m)
         && outside <= bore

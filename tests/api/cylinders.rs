@@ -70,6 +70,8 @@ async fn every_kind_of_bad_cylinder_input_names_its_field() {
         ("bore", json!({"bore": "0 mm"})),
         ("bore", json!({"bore": "100 furlongs"})),
         ("bore", json!({"bore": "40 m"})),
+        // Smaller than the engineering core analyses (a wrong unit, most likely).
+        ("bore", json!({"bore": "0.08 mm", "rod": "0.05 mm"})),
         ("stroke", json!({"stroke": null})),
         ("load_direction", json!({"load_direction": "down"})),
         ("load_direction", json!({"load_direction": null})),

@@ -80,6 +80,10 @@ awk '/Running tests\//{suite=$2} /^test result:/{ if (suite != "" && $4 == "0") 
     || fail_later "a test suite ran zero tests"
 ls "$ARTIFACTS"/*/*.png >/dev/null 2>&1 || fail_later "the browser suite left no screenshots in $ARTIFACTS"
 
+# --- benchmark smoke: every bench phase runs against a small fleet; timings are not judged ---
+say "benchmark smoke mode (seconds; timings are never asserted)"
+cargo test --bench loadhold-bench -- --smoke || fail_later "the benchmark's smoke run failed"
+
 # GET a URL with Python's standard library (no curl on a bare Debian): fetch URL [OUT]
 fetch() {
     python3 - "$@" <<'PY'

@@ -205,7 +205,11 @@ async fn save(
     id: Option<i64>,
     mut draft: Draft,
 ) -> Result<Hose, Vec<AppError>> {
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| vec![e.into()])?;
+    let mut tx = state
+        .db
+        .begin_with("BEGIN IMMEDIATE")
+        .await
+        .map_err(|e| vec![e.into()])?;
     machine_from_cylinder(&mut tx, &mut draft)
         .await
         .map_err(|e| vec![e])?;

@@ -4,9 +4,9 @@
 //!
 //! Fast by construction: one thread makes the rows (the drift tests go through the
 //! engineering core, the costly part) while the caller's task writes them as multi-row
-//! prepared INSERTs on one connection, a few thousand machines per transaction, foreign keys
-//! checked at each commit. It writes straight into the tables: no audit rows (the records are
-//! generated, not entered by anyone).
+//! prepared INSERTs on one connection, a few thousand machines per transaction, parents
+//! before children (see `batch::Writer`). It writes straight into the tables: no audit rows
+//! (the records are generated, not entered by anyone).
 
 mod batch;
 mod drift;
@@ -157,12 +157,15 @@ pub async fn generate_as_of(db: &Db, n: u32, today: Date) -> Result<Summary, Str
     })
 }
 
+/// One message from the row-making thread: how many machines, their rows (parents first), and
+/// the (machine, failed inspection) links to set once the inspections are written.
+type Message = (u64, Rows, Vec<(i64, i64)>);
+
 /// Writes the sites and procedures, then the machines as the row-making thread sends them.
 async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<Counts, String> {
     let db_error = |e: sqlx::Error| format!("database error while generating: {e}");
-    let mut writer = Writer::default();
+    let mut writer = Writer::new(&tables::ORDER);
     let mut tx = conn.begin_with("BEGIN IMMEDIATE").await.map_err(db_error)?;
-    defer_foreign_keys(&mut tx).await.map_err(db_error)?;
     let opened = stamp_of(ctx.today - fleet::days(5 * 365 + 100));
     for site in &ctx.sites {
         let row = vec![
@@ -183,8 +186,9 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
             .await
             .map_err(db_error)?;
     }
+    writer.flush(&mut tx).await.map_err(db_error)?;
 
-    let (sender, mut receiver) = tokio::sync::mpsc::channel::<(u64, Rows)>(4);
+    let (sender, mut receiver) = tokio::sync::mpsc::channel::<Message>(4);
     let maker = std::thread::spawn(move || {
         let mut ids = Ids {
             machine: 1,
@@ -198,10 +202,11 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
         while index < n {
             let end = (index + MESSAGE_MACHINES).min(n);
             let mut rows = Rows::new();
+            let mut links = Vec::new();
             for i in index..end {
-                machine::machine(&ctx, i, &mut ids, &mut rows, &mut counts);
+                machine::machine(&ctx, i, &mut ids, &mut rows, &mut links, &mut counts);
             }
-            if sender.blocking_send((end - index, rows)).is_err() {
+            if sender.blocking_send((end - index, rows, links)).is_err() {
                 break;
             }
             index = end;
@@ -210,39 +215,30 @@ async fn load(conn: &mut SqliteConnection, ctx: machine::Ctx, n: u64) -> Result<
     });
 
     let mut since_commit = 0;
-    while let Some((machines, rows)) = receiver.recv().await {
+    while let Some((machines, rows, links)) = receiver.recv().await {
         for (table, row) in rows {
             writer.push(&mut tx, table, row).await.map_err(db_error)?;
         }
-        since_commit += machines;
-        if since_commit >= TRANSACTION_MACHINES {
-            writer
-                .flush(&mut tx, &tables::ORDER)
+        writer.flush(&mut tx).await.map_err(db_error)?;
+        for (machine, inspection) in links {
+            sqlx::query("UPDATE machines SET out_of_service_inspection_id = ? WHERE id = ?")
+                .bind(inspection)
+                .bind(machine)
+                .execute(&mut *tx)
                 .await
                 .map_err(db_error)?;
+        }
+        since_commit += machines;
+        if since_commit >= TRANSACTION_MACHINES {
             tx.commit().await.map_err(db_error)?;
             tx = conn.begin_with("BEGIN IMMEDIATE").await.map_err(db_error)?;
-            defer_foreign_keys(&mut tx).await.map_err(db_error)?;
             since_commit = 0;
         }
     }
-    writer
-        .flush(&mut tx, &tables::ORDER)
-        .await
-        .map_err(db_error)?;
     tx.commit().await.map_err(db_error)?;
     maker
         .join()
         .map_err(|_| "the row-making thread stopped unexpectedly".to_string())
-}
-
-/// Foreign keys checked at commit, so a machine may name its failed inspection before the
-/// inspection row is written.
-async fn defer_foreign_keys(conn: &mut SqliteConnection) -> Result<(), sqlx::Error> {
-    sqlx::query("PRAGMA defer_foreign_keys = ON")
-        .execute(conn)
-        .await
-        .map(|_| ())
 }
 
 fn stamp_of(day: Date) -> String {

@@ -271,7 +271,10 @@ async fn load_tests(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<(usiz
             }
         }
     }
-    let mut tx = db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| e.to_string())?;
+    let mut tx = db
+        .begin_with("BEGIN IMMEDIATE")
+        .await
+        .map_err(|e| e.to_string())?;
     for t in &drift {
         drift_tests::insert(&mut tx, LOADER, t)
             .await

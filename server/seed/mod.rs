@@ -87,7 +87,10 @@ pub async fn load_demo(db: &Db) -> Result<String, String> {
             "the database already holds {existing} machines; load the demo into an empty database"
         ));
     }
-    let mut tx = db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| e.to_string())?;
+    let mut tx = db
+        .begin_with("BEGIN IMMEDIATE")
+        .await
+        .map_err(|e| e.to_string())?;
     let company = load_fleet(&mut tx).await?;
     // shop: the demo's history (drift tests, inspections) loads here, in the same transaction.
     tx.commit().await.map_err(|e| e.to_string())?;

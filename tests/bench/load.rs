@@ -8,7 +8,7 @@ use hyper::client::conn::http1::{self, SendRequest};
 use hyper::header::{AUTHORIZATION, CONTENT_TYPE, HOST};
 use hyper::{Method, Request};
 use hyper_util::rt::TokioIo;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 use std::net::SocketAddr;
 use std::sync::Arc;
@@ -68,7 +68,7 @@ pub struct Phase {
 }
 
 /// What a phase measured. Latencies in milliseconds.
-#[derive(Clone, Debug, Default, Serialize)]
+#[derive(Clone, Debug, Default, Serialize, Deserialize)]
 pub struct Stats {
     pub name: String,
     pub connections: usize,

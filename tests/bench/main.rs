@@ -8,7 +8,9 @@
 //! Options: `--sizes N,N`, `--seconds S` (measured time per phase, default 5), `--smoke`,
 //! `--out DIR` (default `tests/bench`; `target/bench-smoke` with `--smoke`), `--data DIR`
 //! (databases, default `target/bench-data`; `$CARGO_TARGET_DIR` is honoured), `--keep`
-//! (keep the databases), `--bin PATH`.
+//! (keep the databases), `--bin PATH`; for profiling, `--reuse` (an existing database of the
+//! size, kept) and `--only PHASE,PHASE`; `--render` writes `REPORT.md` again from
+//! `report.json` and `ANALYSIS.md` without measuring.
 //! Smoke mode fails (exit 1) only when a phase could not run or a route answered wrongly;
 //! timings are never judged there.
 
@@ -54,10 +56,16 @@ pub struct Options {
     pub data: PathBuf,
     pub bin: PathBuf,
     pub keep: bool,
+    /// Use an existing database of the size instead of seeding one (profiling runs).
+    pub reuse: bool,
+    /// Run only these phases (profiling runs); `None`: all.
+    pub only: Option<Vec<String>>,
     pub warmup: Duration,
     pub measure: Duration,
     pub due_requests: u64,
     pub command: String,
+    /// Render `REPORT.md` again from `report.json` and `ANALYSIS.md`, measuring nothing.
+    pub render: bool,
 }
 
 fn options() -> Result<Options, String> {
@@ -76,9 +84,12 @@ fn options() -> Result<Options, String> {
         data: target.join("bench-data"),
         bin: server::default_binary(),
         keep: false,
+        reuse: false,
+        only: None,
         warmup: Duration::from_secs(1),
         measure: Duration::from_secs(5),
         due_requests: 30,
+        render: false,
         command: format!("loadhold-bench {}", args.join(" "))
             .trim()
             .to_string(),
@@ -93,7 +104,13 @@ fn options() -> Result<Options, String> {
         };
         match arg.as_str() {
             "--smoke" => o.smoke = true,
+            "--render" => o.render = true,
             "--keep" => o.keep = true,
+            "--reuse" => {
+                o.reuse = true;
+                o.keep = true;
+            }
+            "--only" => o.only = Some(value()?.split(',').map(|s| s.trim().to_string()).collect()),
             "--sizes" => {
                 o.sizes = value()?
                     .split(',')
@@ -127,6 +144,15 @@ fn options() -> Result<Options, String> {
     Ok(o)
 }
 
+impl Options {
+    /// True when phase `name` is to run.
+    pub fn wants(&self, name: &str) -> bool {
+        self.only
+            .as_ref()
+            .is_none_or(|names| names.iter().any(|n| n == name))
+    }
+}
+
 fn host(o: &Options) -> Host {
     let cpuinfo = std::fs::read_to_string("/proc/cpuinfo").unwrap_or_default();
     let meminfo = std::fs::read_to_string("/proc/meminfo").unwrap_or_default();
@@ -146,9 +172,9 @@ fn host(o: &Options) -> Host {
             .and_then(|v| v.parse().ok())
             .unwrap_or(0),
         build: if o.bin.components().any(|c| c.as_os_str() == "release") {
-            "release"
+            "release".into()
         } else {
-            "debug"
+            "debug".into()
         },
         binary: o.bin.display().to_string(),
         command: o.command.clone(),
@@ -171,49 +197,23 @@ fn main() -> ExitCode {
             return ExitCode::FAILURE;
         }
     };
-    if !o.bin.exists() {
-        eprintln!(
-            "loadhold-bench: no server binary at {}; run cargo build --release",
-            o.bin.display()
-        );
-        return ExitCode::FAILURE;
-    }
-    let runtime = match tokio::runtime::Builder::new_current_thread()
-        .enable_all()
-        .build()
-    {
-        Ok(rt) => rt,
-        Err(e) => {
-            eprintln!("loadhold-bench: cannot start tokio: {e}");
-            return ExitCode::FAILURE;
+    let (host, results, failed) = if o.render {
+        match report::read(&o.out) {
+            Ok((host, results)) => (host, results, false),
+            Err(e) => {
+                eprintln!("loadhold-bench: --render: {e}");
+                return ExitCode::FAILURE;
+            }
+        }
+    } else {
+        match run(&o) {
+            Ok(done) => done,
+            Err(e) => {
+                eprintln!("loadhold-bench: {e}");
+                return ExitCode::FAILURE;
+            }
         }
     };
-    let host = host(&o);
-    println!(
-        "loadhold-bench: {} build, sizes {:?}, report in {}",
-        host.build,
-        o.sizes,
-        o.out.display()
-    );
-    let mut results = Vec::new();
-    let mut failed = false;
-    for &n in &o.sizes {
-        match runtime.block_on(measure::measure(&o, n)) {
-            Ok(r) => {
-                failed |= !r.problems.is_empty();
-                results.push(r);
-            }
-            Err(e) => {
-                eprintln!("loadhold-bench: {n} machines: {e}");
-                failed = true;
-                results.push(SizeResult {
-                    machines: n,
-                    problems: vec![e],
-                    ..SizeResult::default()
-                });
-            }
-        }
-    }
     let analysis = std::fs::read_to_string(o.out.join("ANALYSIS.md")).ok();
     match report::write(&o.out, &host, &results, analysis.as_deref()) {
         Ok(targets) => {
@@ -237,4 +237,45 @@ fn main() -> ExitCode {
         return ExitCode::FAILURE;
     }
     ExitCode::SUCCESS
+}
+
+/// Measures every size; returns the host, the results and whether any phase had a problem.
+fn run(o: &Options) -> Result<(Host, Vec<SizeResult>, bool), String> {
+    if !o.bin.exists() {
+        return Err(format!(
+            "no server binary at {}; run cargo build --release",
+            o.bin.display()
+        ));
+    }
+    let runtime = tokio::runtime::Builder::new_current_thread()
+        .enable_all()
+        .build()
+        .map_err(|e| format!("cannot start tokio: {e}"))?;
+    let host = host(o);
+    println!(
+        "loadhold-bench: {} build, sizes {:?}, report in {}",
+        host.build,
+        o.sizes,
+        o.out.display()
+    );
+    let mut results = Vec::new();
+    let mut failed = false;
+    for &n in &o.sizes {
+        match runtime.block_on(measure::measure(o, n)) {
+            Ok(r) => {
+                failed |= !r.problems.is_empty();
+                results.push(r);
+            }
+            Err(e) => {
+                eprintln!("loadhold-bench: {n} machines: {e}");
+                failed = true;
+                results.push(SizeResult {
+                    machines: n,
+                    problems: vec![e],
+                    ..SizeResult::default()
+                });
+            }
+        }
+    }
+    Ok((host, results, failed))
 }

@@ -15,7 +15,16 @@ fn ok_status(status: u16) -> bool {
 }
 
 /// Checks the route with one request, then runs the phase; a wrong answer skips it.
-async fn phase(srv: &Server, r: &mut SizeResult, p: Phase, make: load::MakeReq) -> Option<Stats> {
+async fn phase(
+    o: &Options,
+    srv: &Server,
+    r: &mut SizeResult,
+    p: Phase,
+    make: load::MakeReq,
+) -> Option<Stats> {
+    if !o.wants(p.name) {
+        return None;
+    }
     let probe = make(usize::MAX >> 1, u64::MAX >> 1);
     let what = format!("{} {}", probe.method, probe.path);
     match load::once(srv.addr, probe).await {
@@ -55,8 +64,16 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         machines: n,
         ..SizeResult::default()
     };
-    println!("== {n} machines: seeding {}", db.display());
-    let (seconds, line) = server::seed(&o.bin, &db, n)?;
+    let (seconds, line) = if o.reuse && db.exists() {
+        println!("== {n} machines: reusing {}", db.display());
+        (
+            0.0,
+            format!("reused {} (not seeded in this run)", db.display()),
+        )
+    } else {
+        println!("== {n} machines: seeding {}", db.display());
+        server::seed(&o.bin, &db, n)?
+    };
     println!("  {line} ({seconds:.1} s)");
     r.seed_seconds = seconds;
     r.seed_summary = line;
@@ -124,14 +141,15 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         server_pid: Some(srv.pid),
     };
     let bare = phase(
+        o,
         &srv,
         &mut r,
         ph("bare_static", 64),
         workloads::static_route(),
     )
     .await;
-    phase(&srv, &mut r, ph("healthz", 64), workloads::healthz()).await;
-    let calc = phase(&srv, &mut r, ph("calc", 64), workloads::calc()).await;
+    phase(o, &srv, &mut r, ph("healthz", 64), workloads::healthz()).await;
+    let calc = phase(o, &srv, &mut r, ph("calc", 64), workloads::calc()).await;
     if let (Some(c), Some(b)) = (&calc, &bare) {
         r.calc_over_bare = Some(c.per_second / b.per_second);
     }
@@ -144,33 +162,17 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         max_requests: Some(o.due_requests),
         server_pid: Some(srv.pid),
     };
-    let due = phase(&srv, &mut r, due_phase, workloads::due(admin.clone())).await;
-    let samples = due.as_ref().map_or(o.due_requests, |d| d.requests.max(3));
-    let query = loadhold::db::reports::DueQuery::new(time::OffsetDateTime::now_utc().date());
-    let mut raw = Vec::new();
-    let started = Instant::now();
-    for i in 0..=samples {
-        let t = Instant::now();
-        let items = loadhold::db::reports::due_list(&pool, &query)
-            .await
-            .map_err(|e| format!("due_list: {e}"))?;
-        if i == 0 {
-            r.due_items = items.len();
-            continue; // warm-up, as the HTTP phase's route check was
+    let due = phase(o, &srv, &mut r, due_phase, workloads::due(admin.clone())).await;
+    if o.wants("due_raw") {
+        let samples = due.as_ref().map_or(o.due_requests, |d| d.requests.max(3));
+        due_raw(&pool, samples, &mut r).await?;
+        if let (Some(d), Some(raw)) = (&due, r.phase("due_raw")) {
+            r.due_http_over_raw_p99 = Some(d.p99_ms / raw.p99_ms.max(1e-6));
         }
-        raw.push(t.elapsed().as_micros().min(u128::from(u32::MAX)) as u32);
     }
-    let raw = load::summarise("due_raw", raw, started.elapsed().as_secs_f64());
-    println!(
-        "  {:<16} p50 {:>8.2} ms  p99 {:>8.2} ms  ({} items)",
-        raw.name, raw.p50_ms, raw.p99_ms, r.due_items
-    );
-    if let Some(d) = &due {
-        r.due_http_over_raw_p99 = Some(d.p99_ms / raw.p99_ms.max(1e-6));
-    }
-    r.phases.insert("due_raw".into(), raw);
 
     phase(
+        o,
         &srv,
         &mut r,
         ph("cylinder_page", 32),
@@ -178,6 +180,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
     )
     .await;
     phase(
+        o,
         &srv,
         &mut r,
         ph("fleet_page", 32),
@@ -185,6 +188,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
     )
     .await;
     phase(
+        o,
         &srv,
         &mut r,
         ph("fleet_page_site", 32),
@@ -192,6 +196,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
     )
     .await;
     phase(
+        o,
         &srv,
         &mut r,
         ph("fleet_search", 32),
@@ -201,6 +206,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
     let before_writes = server::database_bytes(&db);
     let run_id = time::OffsetDateTime::now_utc().unix_timestamp() as u64;
     let writes = phase(
+        o,
         &srv,
         &mut r,
         ph("drift_writes", 16),
@@ -228,4 +234,30 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         server::remove_database(&db);
     }
     Ok(r)
+}
+
+/// The due list straight from the storage layer on the same file (`samples` timed calls after
+/// one warm-up call, as the HTTP phase's route check warmed the server).
+async fn due_raw(pool: &loadhold::db::Db, samples: u64, r: &mut SizeResult) -> Result<(), String> {
+    let query = loadhold::db::reports::DueQuery::new(time::OffsetDateTime::now_utc().date());
+    let mut raw = Vec::new();
+    let started = Instant::now();
+    for i in 0..=samples {
+        let t = Instant::now();
+        let items = loadhold::db::reports::due_list(pool, &query)
+            .await
+            .map_err(|e| format!("due_list: {e}"))?;
+        if i == 0 {
+            r.due_items = items.len();
+            continue;
+        }
+        raw.push(t.elapsed().as_micros().min(u128::from(u32::MAX)) as u32);
+    }
+    let raw = load::summarise("due_raw", raw, started.elapsed().as_secs_f64());
+    println!(
+        "  {:<16} p50 {:>8.2} ms  p99 {:>8.2} ms  ({} items)",
+        raw.name, raw.p50_ms, raw.p99_ms, r.due_items
+    );
+    r.phases.insert("due_raw".into(), raw);
+    Ok(())
 }

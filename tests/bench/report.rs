@@ -3,13 +3,13 @@
 
 use crate::load::Stats;
 use crate::targets::{self, Target};
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::Path;
 
 /// Everything measured at one fleet size.
-#[derive(Clone, Debug, Default, Serialize)]
+#[derive(Clone, Debug, Default, Serialize, Deserialize)]
 pub struct SizeResult {
     pub machines: u32,
     pub seed_seconds: f64,
@@ -42,13 +42,13 @@ impl SizeResult {
 }
 
 /// The machine the report was made on.
-#[derive(Clone, Debug, Serialize)]
+#[derive(Clone, Debug, Serialize, Deserialize)]
 pub struct Host {
     pub cpus: usize,
     pub cpu_model: String,
     pub kernel: String,
     pub memory_kb: u64,
-    pub build: &'static str,
+    pub build: String,
     pub binary: String,
     pub command: String,
     pub generated_at: String,
@@ -218,6 +218,21 @@ pub fn markdown(
         let _ = writeln!(md, "\n{}", text.trim_end());
     }
     md
+}
+
+/// The host and sizes of a `report.json` written before (to render the report again after
+/// `ANALYSIS.md` changes, without measuring).
+pub fn read(dir: &Path) -> Result<(Host, Vec<SizeResult>), String> {
+    #[derive(Deserialize)]
+    struct Saved {
+        host: Host,
+        sizes: Vec<SizeResult>,
+    }
+    let path = dir.join("report.json");
+    let text = std::fs::read_to_string(&path).map_err(|e| format!("{}: {e}", path.display()))?;
+    let saved: Saved =
+        serde_json::from_str(&text).map_err(|e| format!("{}: {e}", path.display()))?;
+    Ok((saved.host, saved.sizes))
 }
 
 /// Writes `REPORT.md` and `report.json` into `dir`.

@@ -66,16 +66,34 @@ impl Table {
 }
 
 /// Rows waiting to be written, per table, and the statement texts built so far.
-#[derive(Default)]
+///
+/// Parents are always written before children: before a full batch of a table goes out, every
+/// table before it in `order` is flushed, so each row's parent already exists when SQLite
+/// checks its foreign keys (immediate checks; deferred ones would make SQLite search the child
+/// tables on every parent insert while a violation is pending, which is quadratic where a
+/// foreign key has no index). A partial flush is cut into power-of-two statements so that the
+/// number of distinct statement texts, and so of prepared statements, stays small.
 pub struct Writer {
-    pending: HashMap<&'static str, (Table, Vec<Val>)>,
+    order: &'static [Table],
+    pending: HashMap<&'static str, Vec<Val>>,
     sql: HashMap<(&'static str, usize), Arc<str>>,
     /// Rows written so far, per table.
     pub written: HashMap<&'static str, u64>,
 }
 
 impl Writer {
-    /// Queues one row (its values in the table's column order); writes a batch when full.
+    /// A writer for the tables of `order`, parents first.
+    pub fn new(order: &'static [Table]) -> Self {
+        Writer {
+            order,
+            pending: HashMap::new(),
+            sql: HashMap::new(),
+            written: HashMap::new(),
+        }
+    }
+
+    /// Queues one row (its values in the table's column order); when the table has a full
+    /// batch, writes its parents' pending rows and then the batch.
     pub async fn push(
         &mut self,
         conn: &mut SqliteConnection,
@@ -83,39 +101,46 @@ impl Writer {
         row: Vec<Val>,
     ) -> Result<(), sqlx::Error> {
         debug_assert_eq!(row.len(), table.columns.len(), "{}", table.name);
-        let entry = self
-            .pending
-            .entry(table.name)
-            .or_insert_with(|| (table, Vec::new()));
-        entry.1.extend(row);
-        if entry.1.len() >= table.batch_rows() * table.columns.len() {
-            let values = std::mem::take(&mut entry.1);
-            self.write(conn, table, values).await?;
+        let values = self.pending.entry(table.name).or_default();
+        values.extend(row);
+        if values.len() >= table.batch_rows() * table.columns.len() {
+            for parent in self.order.iter().take_while(|t| t.name != table.name) {
+                self.write_pending(conn, *parent).await?;
+            }
+            self.write_pending(conn, table).await?;
         }
         Ok(())
     }
 
-    /// Writes every queued row (call before commit). Parents go first: tables are written in
-    /// the order given, the rest after.
-    pub async fn flush(
+    /// Writes every queued row, parents first (call before commit).
+    pub async fn flush(&mut self, conn: &mut SqliteConnection) -> Result<(), sqlx::Error> {
+        for table in self.order {
+            self.write_pending(conn, *table).await?;
+        }
+        Ok(())
+    }
+
+    /// Writes a table's queued rows: full batches, then the rest in power-of-two statements.
+    async fn write_pending(
         &mut self,
         conn: &mut SqliteConnection,
-        order: &[Table],
+        table: Table,
     ) -> Result<(), sqlx::Error> {
-        for table in order {
-            if let Some((t, values)) = self.pending.get_mut(table.name) {
-                let (t, values) = (*t, std::mem::take(values));
-                self.write(conn, t, values).await?;
-            }
-        }
-        let rest: Vec<(Table, Vec<Val>)> = self
-            .pending
-            .values_mut()
-            .map(|(t, v)| (*t, std::mem::take(v)))
-            .filter(|(_, v)| !v.is_empty())
-            .collect();
-        for (t, values) in rest {
-            self.write(conn, t, values).await?;
+        let Some(values) = self.pending.get_mut(table.name) else {
+            return Ok(());
+        };
+        let mut values = std::mem::take(values).into_iter();
+        let width = table.columns.len();
+        let mut rows = values.len() / width;
+        while rows > 0 {
+            let n = if rows >= table.batch_rows() {
+                table.batch_rows()
+            } else {
+                1 << rows.ilog2()
+            };
+            let chunk: Vec<Val> = values.by_ref().take(n * width).collect();
+            self.write(conn, table, chunk).await?;
+            rows -= n;
         }
         Ok(())
     }

@@ -1,6 +1,7 @@
 //! One generated machine with everything it owns: its cylinders, hose assemblies, inspections
 //! and drift tests, as rows for the batch writer. Deterministic from the seed and the index.
 
+use super::batch::Val;
 use super::drift;
 use super::fleet::{self, HosePlace, days, round_to, stamp};
 use super::history::{self, MachineSim, ProcedureSim};
@@ -19,8 +20,18 @@ pub struct Ctx {
     pub procedures: Vec<ProcedureSim>,
 }
 
-/// Makes machine number `index` (0-based) with ids from `ids`, appending its rows.
-pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &mut Counts) {
+/// Makes machine number `index` (0-based) with ids from `ids`, appending its rows (the machine
+/// first, then what it owns) and, if a failed inspection keeps it out of service, the
+/// (machine, inspection) link to set once that inspection is written.
+pub fn machine(
+    ctx: &Ctx,
+    index: u64,
+    ids: &mut Ids,
+    rows: &mut Rows,
+    links: &mut Vec<(i64, i64)>,
+    counts: &mut Counts,
+) {
+    let mut own = Rows::new();
     let mut rng = Rng::for_item(ctx.seed, 1, index);
     let kind_index = rng.below(KINDS.len() as u64) as usize;
     let plan = &KINDS[kind_index];
@@ -57,7 +68,7 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
         }
         let (c, row) = fleet::cylinder(&mut rng, ids.cylinder, id, cp, sim.relief, &created);
         ids.cylinder += 1;
-        rows.push((CYLINDERS, row));
+        own.push((CYLINDERS, row));
         cylinders.push(c);
     }
     counts.cylinders += cylinders.len() as u64;
@@ -81,13 +92,13 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
             today,
         );
         counts.hoses += hose_rows.len() as u64;
-        rows.extend(hose_rows.into_iter().map(|r| (HOSES, r)));
+        own.extend(hose_rows.into_iter().map(|r| (HOSES, r)));
         if let (Some(i), Some(rated)) = (cylinder_index, rated) {
             cylinders[i].hoses.push(rated);
         }
     }
 
-    let inspected = history::inspections(&mut rng, &sim, &mut ids.inspection, rows, counts);
+    let inspected = history::inspections(&mut rng, &sim, &mut ids.inspection, &mut own, counts);
     let procedure = &ctx.procedures[kind_index];
     for c in &cylinders {
         drift::drift_tests(
@@ -97,7 +108,7 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
             procedure,
             today,
             &mut ids.drift,
-            rows,
+            &mut own,
             counts,
         );
     }
@@ -140,8 +151,12 @@ pub fn machine(ctx: &Ctx, index: u64, ids: &mut Ids, rows: &mut Rows, counts: &m
             plan.frequent_days.into(),
             created.clone().into(),
             created.into(),
-            inspection_id.into(),
+            Val::Null,
         ],
     ));
+    rows.extend(own);
+    if let Some(inspection) = inspection_id {
+        links.push((id, inspection));
+    }
     counts.machines += 1;
 }

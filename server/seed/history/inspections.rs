@@ -155,7 +155,10 @@ fn body(
 /// Stores the inspections of every machine in one transaction, oldest first per machine (a
 /// fail takes its machine out of service as it would in the shop); returns how many.
 pub async fn load(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<usize, String> {
-    let mut tx = db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| e.to_string())?;
+    let mut tx = db
+        .begin_with("BEGIN IMMEDIATE")
+        .await
+        .map_err(|e| e.to_string())?;
     let mut count = 0;
     for (m, _) in units {
         for (k, p) in plan(m).iter().enumerate() {

@@ -112,7 +112,10 @@ pub async fn load(db: &Db, units: &[(Machine, Vec<Cylinder>)]) -> Result<usize, 
         ),
     ]);
     let mut count = 0;
-    let mut tx = db.begin_with("BEGIN IMMEDIATE").await.map_err(|e| e.to_string())?;
+    let mut tx = db
+        .begin_with("BEGIN IMMEDIATE")
+        .await
+        .map_err(|e| e.to_string())?;
     let mut kinds: Vec<&str> = units.iter().map(|(m, _)| m.kind.as_str()).collect();
     kinds.sort_unstable();
     kinds.dedup();

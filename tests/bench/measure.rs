@@ -64,6 +64,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         machines: n,
         ..SizeResult::default()
     };
+    r.load_average.push(server::load_average());
     let (seconds, line) = if o.reuse && db.exists() {
         println!("== {n} machines: reusing {}", db.display());
         (
@@ -230,6 +231,7 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         "  peak RSS {} kB, after load {} kB",
         r.rss_peak_kb, r.rss_after_load_kb
     );
+    r.load_average.push(server::load_average());
     if !o.keep {
         server::remove_database(&db);
     }

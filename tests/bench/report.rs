@@ -33,6 +33,10 @@ pub struct SizeResult {
     pub bytes_per_written_test: Option<f64>,
     /// Routes missing, phases skipped, anything that kept a figure from being measured.
     pub problems: Vec<String>,
+    /// The machine's 1-minute load average when the size's measuring began and ended (other
+    /// work on the machine shows here).
+    #[serde(default)]
+    pub load_average: Vec<f64>,
 }
 
 impl SizeResult {
@@ -119,12 +123,12 @@ pub fn markdown(
     let _ = writeln!(md, "\n## Cost curve: size, start-up and memory\n");
     let _ = writeln!(
         md,
-        "| machines | seed s | DB MB | KB per machine | start-up ms (median) | RSS idle MB | RSS peak MB | RSS after load MB | bytes per API-written test |\n|---|---|---|---|---|---|---|---|---|"
+        "| machines | seed s | DB MB | KB per machine | start-up ms (median) | RSS idle MB | RSS peak MB | RSS after load MB | bytes per API-written test | load average at start / end |\n|---|---|---|---|---|---|---|---|---|---|"
     );
     for r in results {
         let _ = writeln!(
             md,
-            "| {} | {:.1} | {:.1} | {:.1} | {:.0} | {:.1} | {:.1} | {:.1} | {} |",
+            "| {} | {:.1} | {:.1} | {:.1} | {:.0} | {:.1} | {:.1} | {:.1} | {} | {} |",
             r.machines,
             r.seed_seconds,
             r.database_bytes as f64 / 1e6,
@@ -135,6 +139,11 @@ pub fn markdown(
             r.rss_after_load_kb as f64 / 1024.0,
             r.bytes_per_written_test
                 .map_or("—".into(), |b| format!("{b:.0}")),
+            r.load_average
+                .iter()
+                .map(|l| format!("{l:.2}"))
+                .collect::<Vec<_>>()
+                .join(" / "),
         );
     }
     let _ = writeln!(md, "\n## Cost curve: throughput and latency\n");

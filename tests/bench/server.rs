@@ -169,6 +169,14 @@ impl Drop for Server {
     }
 }
 
+/// The 1-minute load average (`/proc/loadavg`), 0 when unreadable.
+pub fn load_average() -> f64 {
+    std::fs::read_to_string("/proc/loadavg")
+        .ok()
+        .and_then(|s| s.split_whitespace().next()?.parse().ok())
+        .unwrap_or(0.0)
+}
+
 /// `VmRSS` of a process, kB.
 pub fn rss_kb(pid: u32) -> Option<u64> {
     let status = std::fs::read_to_string(format!("/proc/{pid}/status")).ok()?;

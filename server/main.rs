@@ -7,6 +7,11 @@ use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use tokio::net::TcpListener;
 
+/// mimalloc instead of glibc malloc: under many connections glibc's arena locks and
+/// free-list work took about 45 % of the server's CPU (profile in tests/bench/ANALYSIS.md).
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 #[derive(Parser)]
 #[command(
     name = "loadhold",

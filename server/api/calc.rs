@@ -8,6 +8,7 @@ use crate::app::AppState;
 use crate::calc::{analysis, decay, drift};
 use crate::error::ApiResult;
 use axum::routing::post;
+use axum::response::{IntoResponse, Response};
 use axum::{Json, Router};
 use serde_json::Value;
 
@@ -20,13 +21,13 @@ pub fn router() -> Router<AppState> {
 
 /// `POST /api/v1/calc/cylinder`: areas, holding pressures, piston seal bypass, rod-side
 /// intensification, speeds, counterbalance, trapped-oil heating, ratings checks, strength.
-async fn cylinder(Body(map): Body) -> ApiResult<Json<Value>> {
+async fn cylinder(Body(map): Body) -> ApiResult<Response> {
     let f = Fields::new(&map);
     f.deny_unknown(CYLINDER_FIELDS)?;
     let units = f.units()?;
     let input = parse_cylinder_request(&f)?;
     let report = analysis::analyse(&input, units).map_err(calc_error)?;
-    Ok(Json(calc_input::cylinder_response(&input, &report, units)))
+    Ok(Json(calc_input::cylinder_response(&input, &report, units)).into_response())
 }
 
 /// `POST /api/v1/calc/drift-test`: a position-drift test's verdict, diagnosis and reasoning.

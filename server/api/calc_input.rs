@@ -15,7 +15,8 @@ use crate::calc::strength::EndCondition;
 use crate::error::AppError;
 use serde_json::{Map, Value};
 
-pub use crate::api::calc_output::{cylinder_response, decay_response, drift_response};
+pub use crate::api::calc_output::{decay_response, drift_response};
+pub use crate::api::cylinder_answer::cylinder_response;
 
 /// Fields of a cylinder request (`POST /api/v1/calc/cylinder`).
 pub const CYLINDER_FIELDS: &[&str] = &[

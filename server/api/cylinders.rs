@@ -71,7 +71,7 @@ async fn create(
     let asked = asked_units(&params, Some(&body))?;
     let (fields, archived) = cylinder_draft::read(&body, Draft::default()).map_err(first)?;
     refuse_new_archived(archived, "cylinder")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let cylinder = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(reply(&cylinder, asked))))
@@ -115,7 +115,7 @@ async fn update(
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "cylinder", Some(&body))?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let before = store::get(&mut tx, id)
         .await?
         .ok_or_else(|| missing("cylinder", id))?;
@@ -133,7 +133,7 @@ async fn archive(
     params: Params,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "cylinder", None)?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let cylinder = store::archive(&mut tx, &actor.name, id).await?;
     tx.commit().await?;
     Ok(Json(reply(&cylinder, asked)))

@@ -90,7 +90,7 @@ async fn create(
     let asked = asked_units(&params, Some(&body))?;
     let (mut draft, archived) = hose_draft::read(&body, Draft::default()).map_err(first)?;
     refuse_new_archived(archived, "hose")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     machine_from_cylinder(&mut tx, &mut draft).await?;
     let fields = hose_draft::finish(draft).map_err(first)?;
     let hose = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
@@ -135,7 +135,7 @@ async fn update(
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "hose", Some(&body))?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let before = store::get(&mut tx, id)
         .await?
         .ok_or_else(|| missing("hose", id))?;
@@ -153,7 +153,7 @@ async fn archive(
     params: Params,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "hose", None)?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let hose = store::archive(&mut tx, &actor.name, id).await?;
     tx.commit().await?;
     Ok(Json(reply(&hose, asked)))

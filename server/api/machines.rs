@@ -75,7 +75,7 @@ async fn create(
     let asked = asked_units(&params, Some(&body))?;
     let (fields, archived) = machine_draft::read(&body, MachineFields::default()).map_err(first)?;
     refuse_new_archived(archived, "machine")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let machine = store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(reply(&machine, asked))))
@@ -126,7 +126,7 @@ async fn update(
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "machine", Some(&body))?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let before = store::get(&mut tx, id)
         .await?
         .ok_or_else(|| missing("machine", id))?;
@@ -143,7 +143,7 @@ async fn archive(
     params: Params,
 ) -> ApiResult<Json<Value>> {
     let (id, asked) = path_and_units(&params, &id, "machine", None)?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let machine = store::archive(&mut tx, &actor.name, id)
         .await
         .map_err(|e| match e {

@@ -298,7 +298,7 @@ async fn create(
         ));
     }
     let fields = read(&f, &map, None).map_err(first)?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let stored = store::insert(&mut tx, &actor.name, &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(to_json(&stored, units))))
@@ -314,7 +314,7 @@ async fn update(
     let f = Fields::new(&map);
     let units = body_units(&f)?;
     let archived = f.opt_bool("archived")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let before = store::get(&mut tx, id)
         .await?
         .ok_or_else(|| AppError::not_found(format!("procedure {id}")))?;

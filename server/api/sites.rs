@@ -79,7 +79,7 @@ async fn create(
     };
     let (fields, archived) = read(&body, empty).map_err(first)?;
     refuse_new_archived(archived, "site")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let site = sites::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), &fields).await?;
     tx.commit().await?;
     Ok((StatusCode::CREATED, Json(to_json(&site))))
@@ -107,7 +107,7 @@ async fn update(
     Body(body): Body,
 ) -> ApiResult<Json<Value>> {
     let id = path_id(&id, "site")?;
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let before = sites::get(&mut tx, id)
         .await?
         .ok_or_else(|| missing("site", id))?;

@@ -48,6 +48,26 @@ pub async fn connect(path: &Path) -> Result<Db, sqlx::Error> {
         .await
 }
 
+/// Held while a write transaction is open. SQLite lets one writer in at a time; writers that
+/// wait inside SQLite's busy handler sleep on a growing back-off (1, 2, 5, 10 ms and on) and
+/// leave the lock idle between them, so the process queues its own writers here instead
+/// (first come, first served) and each starts the moment the last one commits. Writers of
+/// other processes (the CLI, a backup) still meet the busy timeout.
+pub type WriteGuard = tokio::sync::MutexGuard<'static, ()>;
+
+static WRITER: tokio::sync::Mutex<()> = tokio::sync::Mutex::const_new(());
+
+/// Starts a write transaction (`BEGIN IMMEDIATE`: the write lock is taken at once, so a read
+/// inside it never has to be upgraded) after this process's earlier writers are done. Keep
+/// the guard alive until the transaction is committed or dropped.
+pub async fn begin_write(
+    db: &Db,
+) -> Result<(WriteGuard, sqlx::Transaction<'static, sqlx::Sqlite>), sqlx::Error> {
+    let guard = WRITER.lock().await;
+    let tx = db.begin_with("BEGIN IMMEDIATE").await?;
+    Ok((guard, tx))
+}
+
 /// Opens the database and applies every pending migration.
 pub async fn open(path: &Path) -> Result<Db, sqlx::Error> {
     let db = connect(path).await?;

@@ -208,7 +208,7 @@ async fn save(
     id: Option<i64>,
     fields: &CylinderFields,
 ) -> Result<Cylinder, AppError> {
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let cylinder = match id {
         None => store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), fields).await?,
         Some(id) => store::update(&mut tx, &actor.name, id, fields, None).await?,
@@ -314,7 +314,7 @@ async fn archive(State(state): State<AppState>, actor: Actor, Path(id): Path<Str
         Err(page) => return page,
     };
     let result: Result<(), AppError> = async {
-        let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+        let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
         store::archive(&mut tx, &actor.name, c.id).await?;
         tx.commit().await?;
         Ok(())

@@ -205,9 +205,7 @@ async fn save(
     id: Option<i64>,
     mut draft: Draft,
 ) -> Result<Hose, Vec<AppError>> {
-    let mut tx = state
-        .db
-        .begin_with("BEGIN IMMEDIATE")
+    let (_write, mut tx) = crate::db::begin_write(&state.db)
         .await
         .map_err(|e| vec![e.into()])?;
     machine_from_cylinder(&mut tx, &mut draft)
@@ -310,7 +308,7 @@ async fn archive(State(state): State<AppState>, actor: Actor, Path(id): Path<Str
         Err(page) => return page,
     };
     let result: Result<(), AppError> = async {
-        let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+        let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
         store::archive(&mut tx, &actor.name, hose.id).await?;
         tx.commit().await?;
         Ok(())

@@ -224,7 +224,7 @@ async fn save(
     id: Option<i64>,
     fields: &MachineFields,
 ) -> Result<Machine, AppError> {
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let machine = match id {
         None => store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), fields).await?,
         Some(id) => store::update(&mut tx, &actor.name, id, fields, None).await?,
@@ -298,7 +298,7 @@ async fn archive(State(state): State<AppState>, actor: Actor, Path(id): Path<Str
         Err(page) => return page,
     };
     let result: Result<(), AppError> = async {
-        let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+        let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
         store::archive(&mut tx, &actor.name, machine.id).await?;
         tx.commit().await?;
         Ok(())

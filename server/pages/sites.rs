@@ -93,7 +93,7 @@ async fn save(
     id: Option<i64>,
     fields: &SiteFields,
 ) -> Result<Site, AppError> {
-    let mut tx = state.db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&state.db).await?;
     let site = match id {
         None => store::insert(&mut tx, &actor.name, &crate::db::now_rfc3339(), fields).await?,
         Some(id) => store::update(&mut tx, &actor.name, id, fields, None).await?,

@@ -33,7 +33,7 @@ pub async fn set_hose_age_limit(
     actor: &str,
     years: Option<i32>,
 ) -> Result<Settings, sqlx::Error> {
-    let mut tx = db.begin_with("BEGIN IMMEDIATE").await?;
+    let (_write, mut tx) = crate::db::begin_write(&db).await?;
     let before = sqlx::query_as::<_, Settings>(
         "SELECT hose_age_limit_years, updated_at, updated_by FROM report_settings WHERE id = 1",
     )

@@ -1,0 +1,245 @@
+//! The answer of `POST /api/v1/calc/cylinder` as typed structs: serialised straight to the
+//! response body, with no `serde_json::Value` tree built in between (that tree was most of
+//! the route's allocations; tests/bench/ANALYSIS.md). Every quantity is `{"si", "value",
+//! "unit"}` in the request's unit system (DESIGN.md "API conventions").
+
+use crate::calc::CALC_VERSION;
+use crate::calc::analysis::{CylinderInput, CylinderReport};
+use crate::calc::bypass::Outcome;
+use crate::calc::quantity::{self, Dimension as D, Shown, UnitSystem};
+use serde::Serialize;
+
+#[derive(Serialize)]
+pub struct CylinderAnswer<'a> {
+    calc_version: &'static str,
+    units: &'static str,
+    load_direction: &'static str,
+    position: Shown,
+    areas: Areas,
+    volumes: Pair,
+    holding: Holding,
+    seal_bypass: SealBypass,
+    rod_side_intensification: Option<RodSide>,
+    speeds: Option<Speeds>,
+    forces: Option<Forces>,
+    counterbalance: Counterbalance,
+    trapped_oil_heating: Heating,
+    tube: Option<Tube>,
+    buckling: Option<Buckling>,
+    highest_pressure: Shown,
+    checks: Vec<Check<'a>>,
+    hazards: &'a [String],
+    cautions: &'a [&'static str],
+}
+
+#[derive(Serialize)]
+struct Areas {
+    cap: Shown,
+    rod: Shown,
+    annulus: Shown,
+    ratio: f64,
+}
+
+#[derive(Serialize)]
+struct Pair {
+    cap: Shown,
+    rod: Shown,
+}
+
+#[derive(Serialize)]
+struct Holding {
+    holding_end: &'static str,
+    cap_pressure: Shown,
+    rod_pressure: Shown,
+}
+
+#[derive(Serialize)]
+struct SealBypass {
+    outcome: &'static str,
+    final_pressure: Option<Shown>,
+    intensification_factor: Option<f64>,
+    settle_drift: Option<Shown>,
+    explanation: &'static str,
+}
+
+#[derive(Serialize)]
+struct RodSide {
+    supply_pressure: Shown,
+    rod_pressure: Shown,
+}
+
+#[derive(Serialize)]
+struct Speeds {
+    extend: Shown,
+    retract: Shown,
+    regenerative_extend: Shown,
+    retract_return_flow: Shown,
+    extend_return_flow: Shown,
+}
+
+#[derive(Serialize)]
+struct Forces {
+    extend: Shown,
+    retract: Shown,
+    regenerative_extend: Shown,
+}
+
+#[derive(Serialize)]
+struct Counterbalance {
+    setting: Shown,
+    load_pressure: Shown,
+    pilot_ratio: Option<f64>,
+    pilot_opening_pressure: Option<Shown>,
+}
+
+#[derive(Serialize)]
+struct Heating {
+    temperature_rise: Shown,
+    cap_rise: Shown,
+    rod_rise: Shown,
+    cap_pressure: Shown,
+    rod_pressure: Shown,
+}
+
+#[derive(Serialize)]
+struct Tube {
+    pressure: Shown,
+    hoop_stress: Shown,
+    yield_strength: Shown,
+    safety_factor: f64,
+    allowable_stress: Shown,
+    utilisation: f64,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct Buckling {
+    end_condition: &'static str,
+    effective_length_factor: f64,
+    length: Shown,
+    critical_load: Shown,
+    safety_factor: f64,
+    allowable_load: Shown,
+    load: Shown,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct Check<'a> {
+    component: &'a str,
+    scenario: &'static str,
+    pressure: Shown,
+    rating: Shown,
+    status: &'static str,
+}
+
+const INTENSIFIES: &str = "With both ports blocked and oil crossing the piston, both ends rise to the load over the rod area; the load settles by the settle drift and stops.";
+const RUNS_AWAY: &str = "With oil crossing the piston, no pressure can hold a load that pulls the rod out: the cylinder runs out and both ends fall below atmospheric pressure (cavitation). There is no final pressure.";
+
+/// The answer of `POST /api/v1/calc/cylinder`.
+pub fn cylinder_response<'a>(
+    input: &CylinderInput,
+    r: &'a CylinderReport,
+    units: UnitSystem,
+) -> CylinderAnswer<'a> {
+    let q = |si: f64, dimension: D| quantity::show(si, dimension, units);
+    let oq = |si: Option<f64>, dimension: D| si.map(|v| q(v, dimension));
+    let p = |si: f64| q(si, D::Pressure);
+    let b = &r.seal_bypass;
+    CylinderAnswer {
+        calc_version: CALC_VERSION,
+        units: units.as_str(),
+        load_direction: input.load_direction.as_str(),
+        position: q(r.position, D::Length),
+        areas: Areas {
+            cap: q(r.areas.cap, D::Area),
+            rod: q(r.areas.rod, D::Area),
+            annulus: q(r.areas.annulus, D::Area),
+            ratio: r.areas.ratio,
+        },
+        volumes: Pair {
+            cap: q(r.volumes.cap, D::Volume),
+            rod: q(r.volumes.rod, D::Volume),
+        },
+        holding: Holding {
+            holding_end: input.load_direction.holding_end().as_str(),
+            cap_pressure: p(r.holding.cap_pressure),
+            rod_pressure: p(r.holding.rod_pressure),
+        },
+        seal_bypass: SealBypass {
+            outcome: b.outcome.as_str(),
+            final_pressure: oq(b.final_pressure, D::Pressure),
+            intensification_factor: b.intensification_factor,
+            settle_drift: oq(b.settle_drift, D::Length),
+            explanation: match b.outcome {
+                Outcome::Intensifies => INTENSIFIES,
+                Outcome::RunsAway => RUNS_AWAY,
+            },
+        },
+        rod_side_intensification: r
+            .rod_side_intensification
+            .zip(input.supply_pressure)
+            .map(|(rod, supply)| RodSide {
+                supply_pressure: p(supply),
+                rod_pressure: p(rod),
+            }),
+        speeds: r.speeds.map(|s| Speeds {
+            extend: q(s.extend, D::Speed),
+            retract: q(s.retract, D::Speed),
+            regenerative_extend: q(s.regenerative_extend, D::Speed),
+            retract_return_flow: q(s.retract_return_flow, D::Flow),
+            extend_return_flow: q(s.extend_return_flow, D::Flow),
+        }),
+        forces: r.forces.map(|f| Forces {
+            extend: q(f.extend, D::Force),
+            retract: q(f.retract, D::Force),
+            regenerative_extend: q(f.regenerative_extend, D::Force),
+        }),
+        counterbalance: Counterbalance {
+            setting: p(r.counterbalance.setting),
+            load_pressure: p(r.counterbalance.load_pressure),
+            pilot_ratio: r.counterbalance.pilot_ratio,
+            pilot_opening_pressure: oq(r.counterbalance.pilot_opening_pressure, D::Pressure),
+        },
+        trapped_oil_heating: Heating {
+            temperature_rise: q(r.heating.temperature_rise, D::TemperatureChange),
+            cap_rise: p(r.heating.cap_rise),
+            rod_rise: p(r.heating.rod_rise),
+            cap_pressure: p(r.heating.cap_pressure),
+            rod_pressure: p(r.heating.rod_pressure),
+        },
+        tube: r.tube.map(|t| Tube {
+            pressure: p(t.pressure),
+            hoop_stress: p(t.hoop_stress),
+            yield_strength: p(t.yield_strength),
+            safety_factor: t.safety_factor,
+            allowable_stress: p(t.allowable_stress),
+            utilisation: t.utilisation,
+            status: t.status.as_str(),
+        }),
+        buckling: r.buckling.map(|k| Buckling {
+            end_condition: k.end_condition.as_str(),
+            effective_length_factor: k.end_condition.factor(),
+            length: q(k.length, D::Length),
+            critical_load: q(k.critical_load, D::Force),
+            safety_factor: k.safety_factor,
+            allowable_load: q(k.allowable_load, D::Force),
+            load: q(k.load, D::Force),
+            status: k.status.as_str(),
+        }),
+        highest_pressure: p(r.highest_pressure),
+        checks: r
+            .checks
+            .iter()
+            .map(|c| Check {
+                component: &c.component,
+                scenario: c.scenario,
+                pressure: p(c.pressure),
+                rating: p(c.rating),
+                status: c.status.as_str(),
+            })
+            .collect(),
+        hazards: &r.hazards,
+        cautions: &r.cautions,
+    }
+}

@@ -7,8 +7,8 @@ use super::input::{Body, Fields};
 use crate::app::AppState;
 use crate::calc::{analysis, decay, drift};
 use crate::error::ApiResult;
-use axum::routing::post;
 use axum::response::{IntoResponse, Response};
+use axum::routing::post;
 use axum::{Json, Router};
 use serde_json::Value;
 

@@ -176,13 +176,12 @@ pub fn cylinder_response<'a>(
                 Outcome::RunsAway => RUNS_AWAY,
             },
         },
-        rod_side_intensification: r
-            .rod_side_intensification
-            .zip(input.supply_pressure)
-            .map(|(rod, supply)| RodSide {
+        rod_side_intensification: r.rod_side_intensification.zip(input.supply_pressure).map(
+            |(rod, supply)| RodSide {
                 supply_pressure: p(supply),
                 rod_pressure: p(rod),
-            }),
+            },
+        ),
         speeds: r.speeds.map(|s| Speeds {
             extend: q(s.extend, D::Speed),
             retract: q(s.retract, D::Speed),

@@ -159,7 +159,7 @@ fn analyse(
 }
 
 pub async fn store(db: &Db, actor: &Actor, new: &NewDecayTest) -> ApiResult<Stored<DecayTest>> {
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let stored = store::insert(&mut tx, &actor.name, new).await?;
     tx.commit().await?;
     Ok(stored)

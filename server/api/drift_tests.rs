@@ -175,7 +175,7 @@ fn analyse(
 
 /// Stores a prepared drift test in one transaction with its audit row.
 pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stored<DriftTest>> {
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let stored = store::insert(&mut tx, &actor.name, new).await?;
     tx.commit().await?;
     Ok(stored)

@@ -174,7 +174,7 @@ pub fn prepare(
 
 /// Stores a prepared inspection (and its effect on the machine's status) in one transaction.
 pub async fn store(db: &Db, actor: &Actor, new: &NewInspection) -> ApiResult<Stored<Inspection>> {
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let stored = store::insert(&mut tx, &actor.name, new).await?;
     tx.commit().await?;
     Ok(stored)

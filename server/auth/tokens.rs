@@ -80,7 +80,7 @@ pub async fn create(
     let random =
         secret::random_hex(32).map_err(|e| WriteError::Db(sqlx::Error::Protocol(e.to_string())))?;
     let token = format!("{PREFIX}{random}");
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let id: i64 = sqlx::query_scalar(
         "INSERT INTO api_tokens (name, token_hash, token_prefix, role, created_by, created_at)
          VALUES (?, ?, ?, ?, ?, ?) RETURNING id",
@@ -113,7 +113,7 @@ pub async fn create(
 
 /// Revokes a token: from now on it is refused. Revoking twice changes nothing.
 pub async fn revoke(db: &Db, actor: &Actor, id: i64) -> Result<ApiToken, WriteError> {
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let before = get(&mut tx, id)
         .await?
         .ok_or(WriteError::NotFound("token"))?;

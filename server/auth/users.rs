@@ -130,7 +130,7 @@ pub async fn create_hashed(
         name => name.to_string(),
     };
     let at = now_rfc3339();
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let id: i64 = sqlx::query_scalar(
         "INSERT INTO users (username, display_name, role, password_hash, created_at, updated_at)
          VALUES (?, ?, ?, ?, ?, ?) RETURNING id",
@@ -204,7 +204,7 @@ pub enum Change {
 /// Disabling a user ends their sessions.
 pub async fn change(db: &Db, actor: &Actor, id: i64, change: Change) -> Result<User, WriteError> {
     let at = now_rfc3339();
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let before = get(&mut tx, id)
         .await?
         .ok_or(WriteError::NotFound("user"))?;
@@ -280,7 +280,7 @@ pub async fn set_password(
     let before = find(db, id).await?.ok_or(WriteError::NotFound("user"))?;
     let hash = hash_for(&before.username, password)?;
     let at = now_rfc3339();
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     sqlx::query("UPDATE users SET password_hash = ?, updated_at = ? WHERE id = ?")
         .bind(&hash)
         .bind(&at)

@@ -8,6 +8,7 @@
 use super::Db;
 use crate::calc::due::{self, Due, Window};
 use serde::Serialize;
+use sqlx::{QueryBuilder, Sqlite};
 use time::Date;
 
 mod cylinders;
@@ -113,6 +114,21 @@ pub struct DueItem {
     /// For a hose: `replace_by` or `age_limit`.
     pub reason: Option<&'static str>,
     pub due: Due,
+}
+
+/// Appends the filter's conditions on the machine `m` to a query whose `WHERE` is open: only
+/// those that apply, so that SQLite can use an index for each (a `? IS NULL OR m.site_id = ?`
+/// form would make it read every machine).
+pub(crate) fn push_filter(sql: &mut QueryBuilder<Sqlite>, filter: &FleetFilter) {
+    if let Some(site) = filter.site_id {
+        sql.push(" AND m.site_id = ").push_bind(site);
+    }
+    if let Some(kind) = &filter.machine_kind {
+        sql.push(" AND m.kind = ").push_bind(kind.clone());
+    }
+    if let Some(status) = &filter.status {
+        sql.push(" AND m.status = ").push_bind(status.clone());
+    }
 }
 
 /// The first ten characters of a stored date or RFC 3339 timestamp as a date.

@@ -172,6 +172,21 @@ pub async fn measure(o: &Options, n: u32) -> Result<SizeResult, String> {
         }
     }
 
+    let by_site = phase(
+        o,
+        &srv,
+        &mut r,
+        ph("due_site", 1),
+        workloads::due_site(&fleet, admin.clone()),
+    )
+    .await;
+    if o.wants("due_site_raw") {
+        due_site_raw(&pool, &fleet.sites, o.measure, &mut r).await?;
+        if let (Some(d), Some(raw)) = (&by_site, r.phase("due_site_raw")) {
+            r.due_site_http_over_raw_p99 = Some(d.p99_ms / raw.p99_ms.max(1e-6));
+        }
+    }
+
     phase(
         o,
         &srv,
@@ -261,5 +276,37 @@ async fn due_raw(pool: &loadhold::db::Db, samples: u64, r: &mut SizeResult) -> R
         raw.name, raw.p50_ms, raw.p99_ms, r.due_items
     );
     r.phases.insert("due_raw".into(), raw);
+    Ok(())
+}
+
+/// The due list of one site straight from the storage layer, site after site (the HTTP
+/// phase's order), for `measure` of wall time after one warm-up call.
+async fn due_site_raw(
+    pool: &loadhold::db::Db,
+    sites: &[i64],
+    measure: Duration,
+    r: &mut SizeResult,
+) -> Result<(), String> {
+    let mut query = loadhold::db::reports::DueQuery::new(time::OffsetDateTime::now_utc().date());
+    let mut raw = Vec::new();
+    let started = Instant::now();
+    let mut seq = 0u64;
+    while seq == 0 || started.elapsed() < measure {
+        query.filter.site_id = Some(workloads::site_of(sites, 5, 0, seq));
+        let t = Instant::now();
+        loadhold::db::reports::due_list(pool, &query)
+            .await
+            .map_err(|e| format!("due_list by site: {e}"))?;
+        if seq > 0 {
+            raw.push(t.elapsed().as_micros().min(u128::from(u32::MAX)) as u32);
+        }
+        seq += 1;
+    }
+    let raw = load::summarise("due_site_raw", raw, started.elapsed().as_secs_f64());
+    println!(
+        "  {:<16} p50 {:>8.2} ms  p99 {:>8.2} ms",
+        raw.name, raw.p50_ms, raw.p99_ms
+    );
+    r.phases.insert("due_site_raw".into(), raw);
     Ok(())
 }

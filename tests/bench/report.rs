@@ -28,6 +28,9 @@ pub struct SizeResult {
     pub calc_over_bare: Option<f64>,
     /// HTTP p99 over storage-call p99 for the due report.
     pub due_http_over_raw_p99: Option<f64>,
+    /// The same for the due list of one site.
+    #[serde(default)]
+    pub due_site_http_over_raw_p99: Option<f64>,
     pub database_bytes_after_writes: u64,
     /// Growth of the database per drift test written through the API (row, audit row, indexes).
     pub bytes_per_written_test: Option<f64>,
@@ -153,12 +156,12 @@ pub fn markdown(
     );
     let _ = writeln!(
         md,
-        "| machines | bare req/s | /healthz req/s | calc req/s | calc / bare | calc ms | due HTTP ms | due raw ms | due p99 HTTP / raw | due items | cylinder page ms | fleet list ms | fleet by site ms | unit search ms | drift writes/s | drift write ms |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
+        "| machines | bare req/s | /healthz req/s | calc req/s | calc / bare | calc ms | due HTTP ms | due raw ms | due p99 HTTP / raw | due items | due one site HTTP ms | due one site raw ms | cylinder page ms | fleet list ms | fleet by site ms | unit search ms | drift writes/s | drift write ms |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
     );
     for r in results {
         let _ = writeln!(
             md,
-            "| {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} |",
+            "| {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} | {} |",
             r.machines,
             rps(r.phase("bare_static")),
             rps(r.phase("healthz")),
@@ -170,6 +173,8 @@ pub fn markdown(
             r.due_http_over_raw_p99
                 .map_or("—".into(), |v| format!("{v:.2}")),
             r.due_items,
+            ms(r.phase("due_site")),
+            ms(r.phase("due_site_raw")),
             ms(r.phase("cylinder_page")),
             ms(r.phase("fleet_page")),
             ms(r.phase("fleet_page_site")),
@@ -180,7 +185,7 @@ pub fn markdown(
     }
     let _ = writeln!(
         md,
-        "\n## Every phase\n\n| machines | phase | connections | requests | ok | other statuses | errors | s | req/s | p50 | p90 | p99 | max ms | body bytes | server CPU us/req | server cores busy | bench CPU us/req |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
+        "\n## Every phase\n\n| machines | phase | connections | requests | ok | other statuses | errors | s | req/s | p50 | p90 | p99 | max ms | body bytes | server CPU us/req | server cores busy | bench CPU us/req |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
     );
     for r in results {
         for s in r.phases.values() {

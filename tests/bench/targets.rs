@@ -99,7 +99,10 @@ pub fn judge(results: &[SizeResult]) -> Vec<Target> {
                         raw.p99_ms
                     ),
                     None => "storage call not measured".into(),
-                },
+                } + &format!(
+                    "; the answer lists every item of the fleet due within 30 days ({} items)",
+                    r.due_items
+                ),
             }
         }
         None => not_judged("due report latency", wanted, ran(results)),
@@ -127,6 +130,52 @@ pub fn judge(results: &[SizeResult]) -> Vec<Target> {
                 }
             }
             None => not_judged("due report vs raw query", wanted, ran(results)),
+        },
+    );
+
+    let wanted = "p99 < 50 ms at 100,000 machines, the due list of one site (1 client)";
+    out.push(
+        match at(results, 100_000).and_then(|r| Some((r, r.phase("due_site")?))) {
+            Some((r, due)) => Target {
+                name: "due report latency, one site",
+                wanted,
+                measured: format!(
+                    "p99 {:.1} ms, p50 {:.1} ms ({} requests, {:.0} kB each)",
+                    due.p99_ms,
+                    due.p50_ms,
+                    due.requests,
+                    due.mean_body_bytes / 1e3
+                ),
+                met: Some(due.p99_ms < 50.0),
+                reason: format!(
+                    "server CPU per report {}; the storage call alone takes p99 {}",
+                    cpu(due),
+                    r.phase("due_site_raw")
+                        .map_or("not measured".into(), |raw| format!("{:.1} ms", raw.p99_ms))
+                ),
+            },
+            None => not_judged("due report latency, one site", wanted, ran(results)),
+        },
+    );
+
+    let wanted = "HTTP p99 <= 3 x the same query run straight on the file, one site";
+    out.push(
+        match due_size.and_then(|r| Some((r, r.phase("due_site")?, r.phase("due_site_raw")?))) {
+            Some((r, http, raw)) => {
+                let ratio = http.p99_ms / raw.p99_ms.max(1e-6);
+                Target {
+                    name: "due report vs raw query, one site",
+                    wanted,
+                    measured: format!(
+                        "{ratio:.2}x (p99 {:.1} vs {:.1} ms at {} machines)",
+                        http.p99_ms, raw.p99_ms, r.machines
+                    ),
+                    met: Some(ratio <= 3.0),
+                    reason: "HTTP adds the token check, the site check, the JSON and the transfer"
+                        .into(),
+                }
+            }
+            None => not_judged("due report vs raw query, one site", wanted, ran(results)),
         },
     );
 

@@ -49,6 +49,26 @@ pub fn due(token: Arc<str>) -> MakeReq {
     Arc::new(move |_, _| Req::get("/api/v1/reports/due").bearer(&token))
 }
 
+/// The due list of one site (the manager's usual slice), a different site each request.
+pub fn due_site(fleet: &Fleet, token: Arc<str>) -> MakeReq {
+    let sites = fleet.sites.clone();
+    Arc::new(move |w, s| {
+        Req::get(format!(
+            "/api/v1/reports/due?site={}",
+            site_of(&sites, 5, w, s)
+        ))
+        .bearer(&token)
+    })
+}
+
+/// The site that request `seq` of connection `worker` in `phase` asks for.
+pub fn site_of(sites: &[i64], phase: u64, worker: usize, seq: u64) -> i64 {
+    match sites.len() {
+        0 => 1,
+        n => sites[(spread(phase, worker, seq) % n as u64) as usize],
+    }
+}
+
 pub fn cylinder_page(fleet: &Fleet, token: Arc<str>) -> MakeReq {
     let count = fleet.cylinders;
     Arc::new(move |w, s| Req::get(format!("/cylinders/{}", pick(1, w, s, count))).bearer(&token))
@@ -61,11 +81,7 @@ pub fn fleet_page(token: Arc<str>) -> MakeReq {
 pub fn fleet_page_site(fleet: &Fleet, token: Arc<str>) -> MakeReq {
     let sites = fleet.sites.clone();
     Arc::new(move |w, s| {
-        let site = match sites.len() {
-            0 => 1,
-            n => sites[(spread(2, w, s) % n as u64) as usize],
-        };
-        Req::get(format!("/machines?site={site}")).bearer(&token)
+        Req::get(format!("/machines?site={}", site_of(&sites, 2, w, s))).bearer(&token)
     })
 }
 

@@ -4,6 +4,7 @@
 use super::{DueItem, DueKind, DueQuery, Scope, day_of};
 use crate::calc::due::{self, Baseline, Interval};
 use crate::db::Db;
+use sqlx::{QueryBuilder, Sqlite};
 
 /// A cylinder with its machine and the day of its last hold test in force.
 #[derive(Clone, Debug, sqlx::FromRow)]
@@ -18,66 +19,75 @@ pub(super) struct CylinderRow {
     function: Option<String>,
     created_at: String,
     drift_test_interval_days: Option<i64>,
-    last_tested_at: Option<String>,
+    last_drift_at: Option<String>,
+    last_decay_at: Option<String>,
 }
 
-/// One query: every cylinder in the filter with its last drift or pressure-decay test in force
-/// on or before `as_of` (both are the cylinder's hold test; a decay test serves a cylinder
-/// tested blocked at end of stroke).
+impl CylinderRow {
+    /// The later of the last drift test and the last decay test (RFC 3339 text).
+    fn last_tested_at(&self) -> Option<&str> {
+        match (self.last_drift_at.as_deref(), self.last_decay_at.as_deref()) {
+            (Some(a), Some(b)) => Some(a.max(b)),
+            (a, b) => a.or(b),
+        }
+    }
+}
+
+/// One query: every cylinder in the filter with its last drift and last pressure-decay test
+/// in force on or before `as_of` (both are the cylinder's hold test; a decay test serves a
+/// cylinder tested blocked at end of stroke). Each is an index walk of its own per cylinder
+/// (`(cylinder_id, tested_at)`), stopping at the first test in force.
 pub(super) async fn cylinder_rows(
     db: &Db,
     query: &DueQuery,
     scope: Scope,
 ) -> Result<Vec<CylinderRow>, sqlx::Error> {
-    let f = &query.filter;
-    sqlx::query_as::<_, CylinderRow>(
-        "WITH live AS (
-            SELECT d.cylinder_id, d.tested_at FROM drift_tests d
-            WHERE substr(d.tested_at, 1, 10) <= ?
-              AND NOT EXISTS (SELECT 1 FROM drift_tests a WHERE a.amends_id = d.id)
-            UNION ALL
-            SELECT d.cylinder_id, d.tested_at FROM decay_tests d
-            WHERE substr(d.tested_at, 1, 10) <= ?
-              AND NOT EXISTS (SELECT 1 FROM decay_tests a WHERE a.amends_id = d.id)
-         ),
-         last_test AS (
-            SELECT cylinder_id, MAX(tested_at) AS tested_at FROM live GROUP BY cylinder_id
-         )
-         SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name,
+    // `tested_at` is RFC 3339: before the next day's date string means on or before `as_of`
+    // in the offset it was written with (the same day as its first ten characters), and it
+    // keeps the index usable, which `substr(tested_at, 1, 10) <= as_of` does not.
+    let before = due::add_days(query.as_of, 1)
+        .unwrap_or(query.as_of)
+        .to_string();
+    let mut sql = QueryBuilder::<Sqlite>::new(
+        "SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name,
             m.kind AS machine_kind, m.status AS machine_status, c.function, c.created_at,
-            c.drift_test_interval_days, l.tested_at AS last_tested_at
-         FROM cylinders c
+            c.drift_test_interval_days, ",
+    );
+    for (table, name) in [
+        ("drift_tests", "last_drift_at"),
+        ("decay_tests", "last_decay_at"),
+    ] {
+        sql.push(format!(
+            "(SELECT d.tested_at FROM {table} d WHERE d.cylinder_id = c.id AND d.tested_at < "
+        ));
+        sql.push_bind(before.clone());
+        sql.push(format!(
+            " AND NOT EXISTS (SELECT 1 FROM {table} a WHERE a.amends_id = d.id)
+            ORDER BY d.tested_at DESC LIMIT 1) AS {name}"
+        ));
+        sql.push(if name == "last_drift_at" { ", " } else { " " });
+    }
+    sql.push(
+        "FROM cylinders c
          JOIN machines m ON m.id = c.machine_id
          LEFT JOIN sites s ON s.id = m.site_id
-         LEFT JOIN last_test l ON l.cylinder_id = c.id
          WHERE c.archived_at IS NULL AND m.archived_at IS NULL
-           AND c.drift_test_interval_days IS NOT NULL
-           AND (? IS NULL OR c.machine_id = ?)
-           AND (? IS NULL OR c.id = ?)
-           AND (? IS NULL OR m.site_id = ?)
-           AND (? IS NULL OR m.kind = ?)
-           AND (? IS NULL OR m.status = ?)
-         ORDER BY m.unit_number, c.id",
-    )
-    .bind(query.as_of.to_string())
-    .bind(query.as_of.to_string())
-    .bind(scope.machine_id)
-    .bind(scope.machine_id)
-    .bind(scope.cylinder_id)
-    .bind(scope.cylinder_id)
-    .bind(f.site_id)
-    .bind(f.site_id)
-    .bind(&f.machine_kind)
-    .bind(&f.machine_kind)
-    .bind(&f.status)
-    .bind(&f.status)
-    .fetch_all(db)
-    .await
+           AND c.drift_test_interval_days IS NOT NULL",
+    );
+    if let Some(id) = scope.machine_id {
+        sql.push(" AND c.machine_id = ").push_bind(id);
+    }
+    if let Some(id) = scope.cylinder_id {
+        sql.push(" AND c.id = ").push_bind(id);
+    }
+    super::push_filter(&mut sql, &query.filter);
+    sql.push(" ORDER BY m.unit_number, c.id");
+    sql.build_query_as::<CylinderRow>().fetch_all(db).await
 }
 
 pub(super) fn cylinder_item(row: &CylinderRow, query: &DueQuery) -> Option<DueItem> {
     let registered = day_of(&row.created_at)?;
-    let last = row.last_tested_at.as_deref().and_then(day_of);
+    let last = row.last_tested_at().and_then(day_of);
     let interval = Interval {
         days: row.drift_test_interval_days,
         hours: None,

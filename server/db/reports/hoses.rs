@@ -6,6 +6,7 @@ use crate::calc::due::{self, HoseReason};
 use crate::db::write::snapshot;
 use crate::db::{Db, audit};
 use serde::Serialize;
+use sqlx::{QueryBuilder, Sqlite};
 use time::Date;
 
 /// The shop's report settings.
@@ -33,7 +34,7 @@ pub async fn set_hose_age_limit(
     actor: &str,
     years: Option<i32>,
 ) -> Result<Settings, sqlx::Error> {
-    let (_write, mut tx) = crate::db::begin_write(&db).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
     let before = sqlx::query_as::<_, Settings>(
         "SELECT hose_age_limit_years, updated_at, updated_by FROM report_settings WHERE id = 1",
     )
@@ -145,7 +146,7 @@ pub async fn hose_rows(
     filter: &FleetFilter,
     scope: HoseScope,
 ) -> Result<Vec<HoseRow>, sqlx::Error> {
-    sqlx::query_as::<_, HoseRow>(
+    let mut sql = QueryBuilder::<Sqlite>::new(
         "SELECT h.id, h.machine_id, m.unit_number, m.site_id, s.name AS site_name,
             m.kind AS machine_kind, m.status AS machine_status, h.cylinder_id,
             c.function AS cylinder_function, h.port, h.circuit, h.spec, h.size,
@@ -155,26 +156,17 @@ pub async fn hose_rows(
          LEFT JOIN cylinders c ON c.id = h.cylinder_id
          LEFT JOIN sites s ON s.id = m.site_id
          WHERE h.archived_at IS NULL AND m.archived_at IS NULL
-           AND (c.id IS NULL OR c.archived_at IS NULL)
-           AND (? IS NULL OR h.machine_id = ?)
-           AND (? IS NULL OR h.cylinder_id = ?)
-           AND (? IS NULL OR m.site_id = ?)
-           AND (? IS NULL OR m.kind = ?)
-           AND (? IS NULL OR m.status = ?)
-         ORDER BY m.unit_number, h.id",
-    )
-    .bind(scope.machine_id)
-    .bind(scope.machine_id)
-    .bind(scope.cylinder_id)
-    .bind(scope.cylinder_id)
-    .bind(filter.site_id)
-    .bind(filter.site_id)
-    .bind(&filter.machine_kind)
-    .bind(&filter.machine_kind)
-    .bind(&filter.status)
-    .bind(&filter.status)
-    .fetch_all(db)
-    .await
+           AND (c.id IS NULL OR c.archived_at IS NULL)",
+    );
+    if let Some(id) = scope.machine_id {
+        sql.push(" AND h.machine_id = ").push_bind(id);
+    }
+    if let Some(id) = scope.cylinder_id {
+        sql.push(" AND h.cylinder_id = ").push_bind(id);
+    }
+    super::push_filter(&mut sql, filter);
+    sql.push(" ORDER BY m.unit_number, h.id");
+    sql.build_query_as::<HoseRow>().fetch_all(db).await
 }
 
 /// The hose's replacement as a due item ([`due::hose_due`]); `None` with no replace-by date

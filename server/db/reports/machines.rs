@@ -4,6 +4,7 @@
 use super::{DueItem, DueKind, DueQuery, day_of};
 use crate::calc::due::{self, Baseline, Interval, Reading};
 use crate::db::Db;
+use sqlx::{QueryBuilder, Sqlite};
 use time::Date;
 
 /// A machine with its last inspection of each kind and its latest meter reading.
@@ -30,74 +31,64 @@ pub(super) struct MachineRow {
     reading_hours: Option<f64>,
 }
 
+/// Pushes the id of the machine's last inspection in force on or before `as_of`, of `kind`
+/// or (with `None`) of any kind that read the hour meter: latest day, then the highest meter
+/// reading that day. One index walk per machine (`inspections (machine_id, kind,
+/// performed_on)` or `(machine_id, performed_on)`), stopping at the first row in force.
+fn push_last(sql: &mut QueryBuilder<Sqlite>, kind: Option<&'static str>, as_of: &str) {
+    sql.push("(SELECT i.id FROM inspections i WHERE i.machine_id = m.id");
+    match kind {
+        Some(kind) => sql.push(" AND i.kind = ").push_bind(kind),
+        None => sql.push(" AND i.hour_meter_h IS NOT NULL"),
+    };
+    sql.push(" AND i.performed_on <= ")
+        .push_bind(as_of.to_string());
+    sql.push(
+        " AND NOT EXISTS (SELECT 1 FROM inspections a WHERE a.amends_id = i.id)
+        ORDER BY i.performed_on DESC, i.hour_meter_h IS NULL, i.hour_meter_h DESC LIMIT 1)",
+    );
+}
+
 /// One query: every machine in the filter with, per kind, its last inspection in force on or
 /// before `as_of` (the highest meter reading on that day), and its latest inspection reading.
+/// Each machine's last records are index look-ups of their own (correlated subqueries), so the
+/// cost follows the machines listed, not every inspection ever made (tests/bench/ANALYSIS.md).
 pub(super) async fn machine_rows(
     db: &Db,
     query: &DueQuery,
     machine_id: Option<i64>,
 ) -> Result<Vec<MachineRow>, sqlx::Error> {
-    let f = &query.filter;
-    sqlx::query_as::<_, MachineRow>(
-        "WITH live AS (
-            SELECT i.machine_id, i.kind, i.performed_on, i.hour_meter_h
-            FROM inspections i
-            WHERE i.performed_on <= ?
-              AND (? IS NULL OR i.machine_id = ?)
-              AND NOT EXISTS (SELECT 1 FROM inspections a WHERE a.amends_id = i.id)
-         ),
-         last_on AS (
-            SELECT machine_id, kind, MAX(performed_on) AS performed_on
-            FROM live GROUP BY machine_id, kind
-         ),
-         last_kind AS (
-            SELECT l.machine_id, l.kind, l.performed_on, MAX(v.hour_meter_h) AS hour_meter_h
-            FROM last_on l
-            JOIN live v ON v.machine_id = l.machine_id AND v.kind = l.kind
-                       AND v.performed_on = l.performed_on
-            GROUP BY l.machine_id, l.kind, l.performed_on
-         ),
-         read_on AS (
-            SELECT machine_id, MAX(performed_on) AS performed_on
-            FROM live WHERE hour_meter_h IS NOT NULL GROUP BY machine_id
-         ),
-         reading AS (
-            SELECT r.machine_id, r.performed_on, MAX(v.hour_meter_h) AS hour_meter_h
-            FROM read_on r
-            JOIN live v ON v.machine_id = r.machine_id AND v.performed_on = r.performed_on
-            GROUP BY r.machine_id, r.performed_on
-         )
-         SELECT m.id, m.unit_number, m.site_id, s.name AS site_name, m.kind, m.status,
-            m.created_at, m.updated_at, m.hour_meter_h, m.hour_meter_read_on,
-            m.periodic_interval_days, m.periodic_interval_hours, m.frequent_interval_days,
+    let as_of = query.as_of.to_string();
+    let mut sql = QueryBuilder::<Sqlite>::new(
+        "SELECT x.id, x.unit_number, x.site_id, s.name AS site_name, x.kind, x.status,
+            x.created_at, x.updated_at, x.hour_meter_h, x.hour_meter_read_on,
+            x.periodic_interval_days, x.periodic_interval_hours, x.frequent_interval_days,
             p.performed_on AS periodic_on, p.hour_meter_h AS periodic_hours,
             fr.performed_on AS frequent_on, fr.hour_meter_h AS frequent_hours,
             r.performed_on AS reading_on, r.hour_meter_h AS reading_hours
-         FROM machines m
-         LEFT JOIN sites s ON s.id = m.site_id
-         LEFT JOIN last_kind p ON p.machine_id = m.id AND p.kind = 'periodic'
-         LEFT JOIN last_kind fr ON fr.machine_id = m.id AND fr.kind = 'frequent'
-         LEFT JOIN reading r ON r.machine_id = m.id
-         WHERE m.archived_at IS NULL
-           AND (? IS NULL OR m.id = ?)
-           AND (? IS NULL OR m.site_id = ?)
-           AND (? IS NULL OR m.kind = ?)
-           AND (? IS NULL OR m.status = ?)
-         ORDER BY m.unit_number, m.id",
-    )
-    .bind(query.as_of.to_string())
-    .bind(machine_id)
-    .bind(machine_id)
-    .bind(machine_id)
-    .bind(machine_id)
-    .bind(f.site_id)
-    .bind(f.site_id)
-    .bind(&f.machine_kind)
-    .bind(&f.machine_kind)
-    .bind(&f.status)
-    .bind(&f.status)
-    .fetch_all(db)
-    .await
+         FROM (SELECT m.id, m.unit_number, m.site_id, m.kind, m.status, m.created_at,
+                m.updated_at, m.hour_meter_h, m.hour_meter_read_on, m.periodic_interval_days,
+                m.periodic_interval_hours, m.frequent_interval_days, ",
+    );
+    push_last(&mut sql, Some("periodic"), &as_of);
+    sql.push(" AS periodic_id, ");
+    push_last(&mut sql, Some("frequent"), &as_of);
+    sql.push(" AS frequent_id, ");
+    push_last(&mut sql, None, &as_of);
+    sql.push(" AS reading_id FROM machines m WHERE m.archived_at IS NULL");
+    if let Some(id) = machine_id {
+        sql.push(" AND m.id = ").push_bind(id);
+    }
+    super::push_filter(&mut sql, &query.filter);
+    sql.push(
+        ") x
+         LEFT JOIN sites s ON s.id = x.site_id
+         LEFT JOIN inspections p ON p.id = x.periodic_id
+         LEFT JOIN inspections fr ON fr.id = x.frequent_id
+         LEFT JOIN inspections r ON r.id = x.reading_id
+         ORDER BY x.unit_number, x.id",
+    );
+    sql.build_query_as::<MachineRow>().fetch_all(db).await
 }
 
 /// The current reading: the later-dated of the machine's own reading (its date, else the day

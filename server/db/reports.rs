@@ -143,7 +143,11 @@ pub async fn all_due(db: &Db, query: &DueQuery) -> Result<Vec<DueItem>, sqlx::Er
 
 /// The due list: items overdue or due within the window, furthest overdue first.
 pub async fn due_list(db: &Db, query: &DueQuery) -> Result<Vec<DueItem>, sqlx::Error> {
-    let mut items: Vec<DueItem> = all_due(db, query)
+    let scope = Scope {
+        listed_only: true,
+        ..Scope::default()
+    };
+    let mut items: Vec<DueItem> = collect(db, query, scope)
         .await?
         .into_iter()
         .filter(|i| i.due.is_listed())
@@ -169,7 +173,7 @@ pub fn sort(items: &mut [DueItem]) {
 pub async fn due_for_machine(db: &Db, id: i64, as_of: Date) -> Result<Vec<DueItem>, sqlx::Error> {
     let scope = Scope {
         machine_id: Some(id),
-        cylinder_id: None,
+        ..Scope::default()
     };
     let mut items = collect(db, &DueQuery::new(as_of), scope).await?;
     sort(&mut items);
@@ -179,8 +183,8 @@ pub async fn due_for_machine(db: &Db, id: i64, as_of: Date) -> Result<Vec<DueIte
 /// What is due on one cylinder: its drift test and the hoses on its ports.
 pub async fn due_for_cylinder(db: &Db, id: i64, as_of: Date) -> Result<Vec<DueItem>, sqlx::Error> {
     let scope = Scope {
-        machine_id: None,
         cylinder_id: Some(id),
+        ..Scope::default()
     };
     let mut items = collect(db, &DueQuery::new(as_of), scope).await?;
     sort(&mut items);
@@ -192,6 +196,9 @@ pub async fn due_for_cylinder(db: &Db, id: i64, as_of: Date) -> Result<Vec<DueIt
 struct Scope {
     machine_id: Option<i64>,
     cylinder_id: Option<i64>,
+    /// Leave out, in SQL, hoses that cannot be listed (due lists only; every item is still
+    /// decided by `calc::due`).
+    listed_only: bool,
 }
 
 async fn collect(db: &Db, query: &DueQuery, scope: Scope) -> Result<Vec<DueItem>, sqlx::Error> {
@@ -210,6 +217,14 @@ async fn collect(db: &Db, query: &DueQuery, scope: Scope) -> Result<Vec<DueItem>
     let hose_scope = hoses::HoseScope {
         machine_id: scope.machine_id,
         cylinder_id: scope.cylinder_id,
+        may_be_due_by: scope
+            .listed_only
+            .then(|| due::add_days(query.as_of, query.window.days))
+            .flatten()
+            .map(|horizon| hoses::DueBound {
+                horizon,
+                age_limit_years: settings.hose_age_limit_years,
+            }),
     };
     for row in hoses::hose_rows(db, &query.filter, hose_scope).await? {
         if let Some(item) = hoses::due_item(&row, query, settings.hose_age_limit_years) {

@@ -76,6 +76,33 @@ pub async fn set_hose_age_limit(
 pub struct HoseScope {
     pub machine_id: Option<i64>,
     pub cylinder_id: Option<i64>,
+    /// Only hoses that may be due on or before this day: a coarse, index-friendly superset
+    /// that [`due_item`] then decides exactly (see [`push_may_be_due`]).
+    pub may_be_due_by: Option<DueBound>,
+}
+
+/// The look-ahead of a due list: its last day and the shop's hose age limit.
+#[derive(Clone, Copy, Debug)]
+pub struct DueBound {
+    pub horizon: Date,
+    pub age_limit_years: Option<i32>,
+}
+
+/// Keeps the hoses whose replace-by day is on or before the horizon, or (with an age limit)
+/// made or installed in a year that can reach the limit by then. Every hose [`due_item`]
+/// lists passes: its due day is the earlier of the replace-by day and `born + limit`, `born`
+/// (from `made_in`, else `installed_on`) begins with its year, and a text that is not a date
+/// fails both here and in [`due::parse_made_in`] or [`day_of`] (leading spaces sort first, so
+/// they pass). Text comparison, so the index on `replace_by` serves and the SQL stays portable.
+fn push_may_be_due(sql: &mut QueryBuilder<Sqlite>, bound: DueBound) {
+    sql.push(" AND (h.replace_by <= ")
+        .push_bind(bound.horizon.to_string());
+    if let Some(years) = bound.age_limit_years {
+        let next_year = format!("{:04}", bound.horizon.year() - years + 1);
+        sql.push(" OR h.made_in < ").push_bind(next_year.clone());
+        sql.push(" OR h.installed_on < ").push_bind(next_year);
+    }
+    sql.push(")");
 }
 
 /// A hose with where it is fitted and its dates.
@@ -163,6 +190,9 @@ pub async fn hose_rows(
     }
     if let Some(id) = scope.cylinder_id {
         sql.push(" AND h.cylinder_id = ").push_bind(id);
+    }
+    if let Some(bound) = scope.may_be_due_by {
+        push_may_be_due(&mut sql, bound);
     }
     super::push_filter(&mut sql, filter);
     sql.push(" ORDER BY m.unit_number, h.id");

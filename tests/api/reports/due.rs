@@ -369,3 +369,64 @@ async fn bad_parameters_are_refused_naming_the_parameter() {
         assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, field);
     }
 }
+
+/// The due list leaves out, in SQL, the hoses that cannot be due by its last day (a coarse
+/// text comparison on `replace_by`, `made_in` and `installed_on`), then decides each hose
+/// exactly. The hoses below sit on either side of that day. Dates worked by hand on the
+/// calendar: as of 2025-06-01 with 30 days the last day is 2025-07-01 (120 days: 2025-09-29);
+/// with a 6-year age limit a hose is due on the day it was made (first day of its quarter)
+/// or, without that, installed, plus 6 years.
+#[tokio::test]
+async fn hoses_are_listed_exactly_up_to_the_last_day_of_the_window() {
+    let app = TestApp::new().await;
+    let unit = machine(&app, json!({"unit_number": "HV-301", "kind": "crane"})).await;
+    let made = |q: &str| json!({"made_in": q});
+    let soon_by_age = hose(&app, unit, made("2019-Q3")).await; // 2025-07-01: the last day
+    let later_by_age = hose(&app, unit, made("2019-Q4")).await; // 2025-10-01
+    let over_by_age = hose(&app, unit, made("2018-Q1")).await; // 2024-01-01: overdue
+    let soon_installed = hose(&app, unit, json!({"installed_on": "2019-06-15"})).await; // 2025-06-15
+    let day_after_installed = hose(&app, unit, json!({"installed_on": "2019-07-02"})).await; // 2025-07-02
+    let soon_replace_by = hose(
+        &app,
+        unit,
+        json!({"made_in": "2024-Q1", "replace_by": "2025-07-01"}),
+    )
+    .await;
+    let day_after_replace_by = hose(
+        &app,
+        unit,
+        json!({"made_in": "2024-Q1", "replace_by": "2025-07-02"}),
+    )
+    .await;
+    hose(&app, unit, json!({})).await; // no date at all: never due
+
+    let hose_ids = |list: Vec<serde_json::Value>| {
+        let mut ids: Vec<i64> = list
+            .iter()
+            .filter(|i| i["kind"] == "hose_replacement")
+            .map(|i| i["hose_id"].as_i64().unwrap())
+            .collect();
+        ids.sort();
+        ids
+    };
+    // No age limit: only the replace-by date counts.
+    assert_eq!(hose_ids(items(&app, AS_OF).await), vec![soon_replace_by]);
+
+    let (status, set) = app
+        .json(
+            "PUT",
+            "/api/v1/reports/settings",
+            Some(&json!({"hose_age_limit_years": 6})),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{set}");
+    let mut want = vec![soon_by_age, over_by_age, soon_installed, soon_replace_by];
+    want.sort();
+    assert_eq!(hose_ids(items(&app, AS_OF).await), want);
+
+    let wider = format!("{AS_OF}&within_days=120");
+    want.extend([day_after_installed, day_after_replace_by]);
+    want.sort();
+    assert_eq!(hose_ids(items(&app, &wider).await), want);
+    assert!(!want.contains(&later_by_age));
+}

@@ -173,11 +173,14 @@ fn analyse(
     })
 }
 
-/// Stores a prepared drift test in one transaction with its audit row.
+/// Stores a prepared drift test with its audit row, committed with whatever other drift tests
+/// arrived meanwhile (`db::group_commit`: one fsync for the group); answered after the commit.
 pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stored<DriftTest>> {
-    let (_write, mut tx) = crate::db::begin_write(db).await?;
-    let stored = store::insert(&mut tx, &actor.name, new).await?;
-    tx.commit().await?;
+    let (name, new) = (actor.name.clone(), new.clone());
+    let stored = crate::db::group_commit::write(db, move |conn| {
+        Box::pin(async move { store::insert(conn, &name, &new).await })
+    })
+    .await?;
     Ok(stored)
 }
 

@@ -19,6 +19,7 @@ pub mod write;
 // shop
 pub mod decay_tests;
 pub mod drift_tests;
+pub mod group_commit;
 pub mod inspections;
 pub mod procedures;
 pub mod records;
@@ -55,7 +56,7 @@ pub async fn connect(path: &Path) -> Result<Db, sqlx::Error> {
 /// other processes (the CLI, a backup) still meet the busy timeout.
 pub type WriteGuard = tokio::sync::MutexGuard<'static, ()>;
 
-static WRITER: tokio::sync::Mutex<()> = tokio::sync::Mutex::const_new(());
+pub(crate) static WRITER: tokio::sync::Mutex<()> = tokio::sync::Mutex::const_new(());
 
 /// Starts a write transaction (`BEGIN IMMEDIATE`: the write lock is taken at once, so a read
 /// inside it never has to be upgraded) after this process's earlier writers are done. Keep

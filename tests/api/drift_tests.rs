@@ -443,3 +443,112 @@ async fn procedures_are_created_read_updated_and_archived_never_deleted() {
         assert_field_error(status, &answer, StatusCode::UNPROCESSABLE_ENTITY, field);
     }
 }
+
+/// Drift tests sent at once share transactions (`db::group_commit`). Each is still answered
+/// on its own: every token is stored once with one audit row, a resubmission inside the same
+/// burst gets the stored record, and tests refused for their own reasons inside the group (a
+/// token already used on another cylinder, an amendment of a test that does not exist) or
+/// before it (an archived cylinder) are refused without taking the others down.
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn drift_tests_sent_at_once_are_each_stored_once_and_answered_on_their_own() {
+    use axum::body::Body;
+    use http_body_util::BodyExt;
+    use tower::ServiceExt;
+
+    let app = TestApp::new().await;
+    let (_, live) = loaded_cylinder(&app, "HV-401").await;
+    let (_, gone) = loaded_cylinder(&app, "HV-402").await;
+    let (status, body) = app
+        .patch_json(
+            &format!("/api/v1/cylinders/{gone}"),
+            &json!({"archived": true}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "archive: {body}");
+    let (_, other) = loaded_cylinder(&app, "HV-403").await;
+    let (status, body) = app
+        .post_json(
+            &format!("/api/v1/cylinders/{other}/drift-tests"),
+            &record("taken"),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{body}");
+
+    // 20 tokens on the live cylinder, g-0 and g-1 sent three times each; two on the archived.
+    let mut sends: Vec<(i64, String)> = (0..20).map(|n| (live, format!("g-{n}"))).collect();
+    for n in [0, 1, 0, 1] {
+        sends.push((live, format!("g-{n}")));
+    }
+    sends.push((gone, "a-0".into()));
+    sends.push((gone, "a-1".into()));
+    sends.push((live, "taken".into()));
+    sends.push((live, "amends-nothing".into()));
+    let mut tasks = Vec::new();
+    for (cylinder, token) in sends {
+        let mut body = record(&token);
+        if token == "amends-nothing" {
+            body["amends"] = json!(999_999);
+        }
+        let request = app
+            .builder("POST", &format!("/api/v1/cylinders/{cylinder}/drift-tests"))
+            .header("content-type", "application/json")
+            .body(Body::from(body.to_string()))
+            .expect("request");
+        let router = app.router.clone();
+        tasks.push(tokio::spawn(async move {
+            let response = router.oneshot(request).await.expect("infallible");
+            let status = response.status();
+            let bytes = response
+                .into_body()
+                .collect()
+                .await
+                .expect("body")
+                .to_bytes();
+            let body: Value = serde_json::from_slice(&bytes).expect("json");
+            (cylinder, token, status, body)
+        }));
+    }
+    let mut ids: std::collections::BTreeMap<String, (i64, Vec<StatusCode>)> = Default::default();
+    for task in tasks {
+        let (cylinder, token, status, body) = task.await.expect("task");
+        if cylinder == gone {
+            assert_field_error(status, &body, StatusCode::CONFLICT, "cylinder");
+            continue;
+        }
+        if token == "taken" {
+            assert_field_error(status, &body, StatusCode::CONFLICT, "client_token");
+            continue;
+        }
+        if token == "amends-nothing" {
+            assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "amends");
+            continue;
+        }
+        assert!(
+            status == StatusCode::CREATED || status == StatusCode::OK,
+            "{token}: {status} {body}"
+        );
+        let id = body["id"].as_i64().expect("id");
+        let entry = ids.entry(token.clone()).or_insert((id, Vec::new()));
+        assert_eq!(entry.0, id, "{token} answered with two different records");
+        entry.1.push(status);
+    }
+    assert_eq!(ids.len(), 20);
+    for (token, (_, statuses)) in &ids {
+        let created = statuses
+            .iter()
+            .filter(|s| **s == StatusCode::CREATED)
+            .count();
+        assert_eq!(created, 1, "{token}: {statuses:?}");
+    }
+    let rows: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM drift_tests")
+        .fetch_one(&app.db)
+        .await
+        .expect("count");
+    assert_eq!(rows, 21, "the 20 of the burst and the one sent before it");
+    let audits: i64 =
+        sqlx::query_scalar("SELECT COUNT(*) FROM audit_log WHERE entity = 'drift_test'")
+            .fetch_one(&app.db)
+            .await
+            .expect("count");
+    assert_eq!(audits, 21, "one audit row per stored test");
+}

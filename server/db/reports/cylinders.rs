@@ -36,7 +36,9 @@ impl CylinderRow {
 /// One query: every cylinder in the filter with its last drift and last pressure-decay test
 /// in force on or before `as_of` (both are the cylinder's hold test; a decay test serves a
 /// cylinder tested blocked at end of stroke). Each is an index walk of its own per cylinder
-/// (`(cylinder_id, tested_at)`), stopping at the first test in force.
+/// (`(cylinder_id, tested_at)`), stopping at the first test in force. For a due list
+/// (`listed_only`) the cylinders that cannot be due by its last day are left out in SQL (see
+/// [`cutoffs`]); `calc::due` still decides every one returned.
 pub(super) async fn cylinder_rows(
     db: &Db,
     query: &DueQuery,
@@ -48,7 +50,21 @@ pub(super) async fn cylinder_rows(
     let before = due::add_days(query.as_of, 1)
         .unwrap_or(query.as_of)
         .to_string();
-    let mut sql = QueryBuilder::<Sqlite>::new(
+    let listed_by = if scope.listed_only {
+        let horizon = due::add_days(query.as_of, query.window.days);
+        match horizon {
+            Some(horizon) => cutoffs(db, query, horizon).await?,
+            None => None,
+        }
+    } else {
+        None
+    };
+    let mut sql = QueryBuilder::<Sqlite>::new(if listed_by.is_some() {
+        "SELECT x.* FROM ("
+    } else {
+        ""
+    });
+    sql.push(
         "SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name,
             m.kind AS machine_kind, m.status AS machine_status, c.function, c.created_at,
             c.drift_test_interval_days, ",
@@ -81,8 +97,59 @@ pub(super) async fn cylinder_rows(
         sql.push(" AND c.id = ").push_bind(id);
     }
     super::push_filter(&mut sql, &query.filter);
-    sql.push(" ORDER BY m.unit_number, c.id");
+    match listed_by {
+        None => sql.push(" ORDER BY m.unit_number, c.id"),
+        Some(cutoffs) => {
+            sql.push(") x WHERE ");
+            for (n, (days, cutoff)) in cutoffs.iter().enumerate() {
+                if n > 0 {
+                    sql.push(" OR ");
+                }
+                sql.push("(x.drift_test_interval_days = ").push_bind(*days);
+                sql.push(" AND (x.last_drift_at IS NULL OR x.last_drift_at < ")
+                    .push_bind(cutoff.clone());
+                sql.push(") AND (x.last_decay_at IS NULL OR x.last_decay_at < ")
+                    .push_bind(cutoff.clone());
+                sql.push("))");
+            }
+            sql.push(" ORDER BY x.unit_number, x.id")
+        }
+    };
     sql.build_query_as::<CylinderRow>().fetch_all(db).await
+}
+
+/// At most this many distinct intervals are spelt out in SQL; with more, every cylinder is
+/// read and decided in Rust.
+const MAX_INTERVALS: usize = 16;
+
+/// For a due list ending on `horizon`: each drift-test interval in use under the filter, with
+/// the time before which a cylinder's last hold test must fall for it to be due by then
+/// (`last day + interval <= horizon`, so before the day after `horizon - interval`, as RFC
+/// 3339 text compares). Cylinders never tested are always kept (due from registration).
+/// `None`: too many intervals to spell out, or a date off the calendar.
+async fn cutoffs(
+    db: &Db,
+    query: &DueQuery,
+    horizon: time::Date,
+) -> Result<Option<Vec<(i64, String)>>, sqlx::Error> {
+    let mut sql = QueryBuilder::<Sqlite>::new(
+        "SELECT DISTINCT c.drift_test_interval_days FROM cylinders c
+         JOIN machines m ON m.id = c.machine_id
+         WHERE c.archived_at IS NULL AND m.archived_at IS NULL
+           AND c.drift_test_interval_days IS NOT NULL",
+    );
+    super::push_filter(&mut sql, &query.filter);
+    let days: Vec<i64> = sql.build_query_scalar().fetch_all(db).await?;
+    if days.is_empty() || days.len() > MAX_INTERVALS {
+        return Ok(None);
+    }
+    Ok(days
+        .into_iter()
+        .map(|d| {
+            let cutoff = due::add_days(horizon, 1_i64.checked_sub(d)?)?;
+            Some((d, cutoff.to_string()))
+        })
+        .collect())
 }
 
 pub(super) fn cylinder_item(row: &CylinderRow, query: &DueQuery) -> Option<DueItem> {

@@ -430,3 +430,71 @@ async fn hoses_are_listed_exactly_up_to_the_last_day_of_the_window() {
     assert_eq!(hose_ids(items(&app, &wider).await), want);
     assert!(!want.contains(&later_by_age));
 }
+
+/// The due list leaves out, in SQL, the cylinders whose last hold test (drift or pressure
+/// decay, whichever is later) keeps them clear of its last day, interval by interval, then
+/// decides each exactly. Dates worked by hand on the calendar: as of 2025-06-01 with 30 days
+/// the last day is 2025-07-01.
+#[tokio::test]
+async fn cylinders_are_listed_exactly_up_to_the_last_day_of_the_window() {
+    let app = TestApp::new().await;
+    let unit = machine(&app, json!({"unit_number": "HV-311", "kind": "crane"})).await;
+    let every = |days: i64| json!({"drift_test_interval_days": days});
+    let on_last_day = cylinder(&app, unit, every(90)).await; // 04-02 + 90 d = 07-01
+    drift_test(&app, on_last_day, "2025-04-02T10:00:00Z", 0.5, 5.0).await;
+    let day_after = cylinder(&app, unit, every(90)).await; // 04-03 + 90 d = 07-02
+    drift_test(&app, day_after, "2025-04-03T07:00:00Z", 0.5, 5.0).await;
+    let monthly = cylinder(&app, unit, every(30)).await; // 05-31 + 30 d = 06-30
+    drift_test(&app, monthly, "2025-05-31T16:00:00Z", 0.5, 5.0).await;
+    // Drift-tested 2025-03-01 (due 04-30, overdue) but decay-tested 2025-05-15: due 07-14.
+    let decay_later = cylinder(&app, unit, every(60)).await;
+    drift_test(&app, decay_later, "2025-03-01T09:00:00Z", 0.5, 5.0).await;
+    let decay = json!({
+        "pressurised_end": "cap", "duration": "10 min",
+        "pressure_start": "200 bar", "pressure_end": "199 bar",
+        "oil_temperature_start": "41 degC", "oil_temperature_end": "41 degC",
+        "limit": {"pressure": "15 bar", "per": "10 min"},
+        "technician": "R. Okafor", "tested_at": "2025-05-15T10:00:00Z",
+    });
+    let (status, body) = app
+        .post_json(
+            &format!("/api/v1/cylinders/{decay_later}/decay-tests"),
+            &decay,
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{body}");
+    // Drift-tested 2025-03-01 with a decay test after the report's day: still overdue.
+    let decay_after_as_of = cylinder(&app, unit, every(60)).await;
+    drift_test(&app, decay_after_as_of, "2025-03-01T09:00:00Z", 0.5, 5.0).await;
+    let mut late = decay.clone();
+    late["tested_at"] = json!("2025-06-02T10:00:00Z");
+    let (status, body) = app
+        .post_json(
+            &format!("/api/v1/cylinders/{decay_after_as_of}/decay-tests"),
+            &late,
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{body}");
+
+    let listed: Vec<(i64, String)> = items(&app, AS_OF)
+        .await
+        .iter()
+        .filter(|i| i["kind"] == "drift_test")
+        .map(|i| {
+            let id = i["cylinder_id"].as_i64().unwrap();
+            (id, i["due_on"].as_str().unwrap().to_string())
+        })
+        .collect();
+    let mut want = vec![
+        (decay_after_as_of, "2025-04-30".to_string()),
+        (monthly, "2025-06-30".to_string()),
+        (on_last_day, "2025-07-01".to_string()),
+    ];
+    want.sort();
+    let mut got = listed.clone();
+    got.sort();
+    assert_eq!(
+        got, want,
+        "left out: {day_after} (07-02), {decay_later} (07-14)"
+    );
+}

@@ -44,6 +44,9 @@ pub async fn connect(path: &Path) -> Result<Db, sqlx::Error> {
         .busy_timeout(Duration::from_secs(10));
     SqlitePoolOptions::new()
         .max_connections(8)
+        // sqlx pings a connection before lending it; for a local file that check is one more
+        // trip to the connection's worker thread per query and can find nothing to repair
+        .test_before_acquire(false)
         .min_connections(1)
         .connect_with(options)
         .await

@@ -185,7 +185,7 @@ pub fn markdown(
     }
     let _ = writeln!(
         md,
-        "\n## Every phase\n\n| machines | phase | connections | requests | ok | other statuses | errors | s | req/s | p50 | p90 | p99 | max ms | body bytes | server CPU us/req | server cores busy | bench CPU us/req |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
+        "\n## Every phase\n\n| machines | phase | connections | requests | ok | other statuses | errors | s | req/s | p50 | p90 | p99 | max ms | body bytes | server CPU us/req | server cores busy | bench CPU us/req |\n|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|---|"
     );
     for r in results {
         for s in r.phases.values() {

@@ -8,12 +8,14 @@
 //! found, a conflict): it checks before it writes, as the record stores do. A database error
 //! fails the whole group; every writer in it gets the error and nothing of the group is kept.
 
-use super::{Db, WRITER};
+use super::Db;
 use crate::db::write::WriteError;
 use sqlx::SqliteConnection;
+use std::collections::HashMap;
 use std::future::Future;
+use std::path::PathBuf;
 use std::pin::Pin;
-use std::sync::Mutex;
+use std::sync::{Arc, Mutex};
 use tokio::sync::oneshot;
 
 /// Tells a writer how its group ended: committed, or why not.
@@ -27,7 +29,26 @@ type Job = Box<
         + Send,
 >;
 
-static QUEUE: Mutex<Vec<Job>> = Mutex::new(Vec::new());
+/// One database file's write lock and its queue of work for the next group.
+#[derive(Default)]
+pub(crate) struct Writer {
+    pub(crate) lock: Arc<tokio::sync::Mutex<()>>,
+    queue: Mutex<Vec<Job>>,
+}
+
+static WRITERS: Mutex<Option<HashMap<PathBuf, Arc<Writer>>>> = Mutex::new(None);
+
+/// The writer of `db`'s file (the same for every pool opened on it in this process), so that
+/// work queued for one database never runs in another's transaction.
+pub(crate) fn writer(db: &Db) -> Arc<Writer> {
+    let given = db.connect_options().get_filename().to_path_buf();
+    let path = std::fs::canonicalize(&given).unwrap_or(given);
+    let mut all = WRITERS.lock().unwrap_or_else(|e| e.into_inner());
+    all.get_or_insert_with(HashMap::new)
+        .entry(path)
+        .or_default()
+        .clone()
+}
 
 /// Runs `work` inside a shared write transaction and answers once that transaction is
 /// committed. The work runs on a task of its own, so a caller that goes away (a dropped
@@ -58,8 +79,13 @@ where
             }
         })
     });
-    QUEUE.lock().unwrap_or_else(|e| e.into_inner()).push(job);
-    tokio::spawn(drain(db.clone()));
+    let writer = writer(db);
+    writer
+        .queue
+        .lock()
+        .unwrap_or_else(|e| e.into_inner())
+        .push(job);
+    tokio::spawn(drain(db.clone(), writer));
     answer.await.unwrap_or_else(|_| {
         Err(WriteError::Db(sqlx::Error::Protocol(
             "the write could not be started; nothing was stored".into(),
@@ -69,9 +95,9 @@ where
 
 /// Takes the write lock and runs whatever is queued (possibly nothing: an earlier holder may
 /// have run this writer's work already) as one transaction.
-async fn drain(db: Db) {
-    let _write = WRITER.lock().await;
-    let jobs = std::mem::take(&mut *QUEUE.lock().unwrap_or_else(|e| e.into_inner()));
+async fn drain(db: Db, writer: Arc<Writer>) {
+    let _write = writer.lock.lock().await;
+    let jobs = std::mem::take(&mut *writer.queue.lock().unwrap_or_else(|e| e.into_inner()));
     if jobs.is_empty() {
         return;
     }

@@ -55,11 +55,10 @@ pub async fn connect(path: &Path) -> Result<Db, sqlx::Error> {
 /// Held while a write transaction is open. SQLite lets one writer in at a time; writers that
 /// wait inside SQLite's busy handler sleep on a growing back-off (1, 2, 5, 10 ms and on) and
 /// leave the lock idle between them, so the process queues its own writers here instead
-/// (first come, first served) and each starts the moment the last one commits. Writers of
-/// other processes (the CLI, a backup) still meet the busy timeout.
-pub type WriteGuard = tokio::sync::MutexGuard<'static, ()>;
-
-pub(crate) static WRITER: tokio::sync::Mutex<()> = tokio::sync::Mutex::const_new(());
+/// (first come, first served) and each starts the moment the last one commits. One lock per
+/// database file ([`group_commit::writer`]). Writers of other processes (the CLI, a backup)
+/// still meet the busy timeout.
+pub type WriteGuard = tokio::sync::OwnedMutexGuard<()>;
 
 /// Starts a write transaction (`BEGIN IMMEDIATE`: the write lock is taken at once, so a read
 /// inside it never has to be upgraded) after this process's earlier writers are done. Keep
@@ -67,7 +66,7 @@ pub(crate) static WRITER: tokio::sync::Mutex<()> = tokio::sync::Mutex::const_new
 pub async fn begin_write(
     db: &Db,
 ) -> Result<(WriteGuard, sqlx::Transaction<'static, sqlx::Sqlite>), sqlx::Error> {
-    let guard = WRITER.lock().await;
+    let guard = group_commit::writer(db).lock.clone().lock_owned().await;
     let tx = db.begin_with("BEGIN IMMEDIATE").await?;
     Ok((guard, tx))
 }

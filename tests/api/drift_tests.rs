@@ -552,3 +552,50 @@ async fn drift_tests_sent_at_once_are_each_stored_once_and_answered_on_their_own
             .expect("count");
     assert_eq!(audits, 21, "one audit row per stored test");
 }
+
+/// Two databases in one process (two apps here) each keep their own queue of drift tests: a
+/// group is always committed to the database its writes were sent to, even when both apps
+/// have a cylinder with the same id and write at the same moment.
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn drift_tests_for_two_databases_in_one_process_stay_in_their_own() {
+    use axum::body::Body;
+    use tower::ServiceExt;
+
+    let a = TestApp::new().await;
+    let b = TestApp::new().await;
+    let (_, on_a) = loaded_cylinder(&a, "HV-501").await;
+    let (_, on_b) = loaded_cylinder(&b, "HV-501").await;
+    assert_eq!(on_a, on_b, "the same cylinder id in both databases");
+    let path = format!("/api/v1/cylinders/{on_a}/drift-tests");
+    let mut tasks = Vec::new();
+    for n in 0..30 {
+        let (app, name) = if n % 2 == 0 { (&a, "a") } else { (&b, "b") };
+        let token = format!("{name}-{n}");
+        let request = app
+            .builder("POST", &path)
+            .header("content-type", "application/json")
+            .body(Body::from(record(&token).to_string()))
+            .expect("request");
+        let router = app.router.clone();
+        tasks.push(tokio::spawn(async move {
+            let status = router.oneshot(request).await.expect("infallible").status();
+            (token, status)
+        }));
+    }
+    for task in tasks {
+        let (token, status) = task.await.expect("task");
+        assert_eq!(status, StatusCode::CREATED, "{token}");
+    }
+    for (app, name) in [(&a, "a"), (&b, "b")] {
+        let tokens: Vec<String> =
+            sqlx::query_scalar("SELECT client_token FROM drift_tests ORDER BY client_token")
+                .fetch_all(&app.db)
+                .await
+                .expect("tokens");
+        assert_eq!(tokens.len(), 15, "{name}: {tokens:?}");
+        assert!(
+            tokens.iter().all(|t| t.starts_with(&format!("{name}-"))),
+            "{name} holds another database's tests: {tokens:?}"
+        );
+    }
+}

@@ -41,8 +41,10 @@ static WRITERS: Mutex<Option<HashMap<PathBuf, Arc<Writer>>>> = Mutex::new(None);
 /// The writer of `db`'s file (the same for every pool opened on it in this process), so that
 /// work queued for one database never runs in another's transaction.
 pub(crate) fn writer(db: &Db) -> Arc<Writer> {
-    let given = db.connect_options().get_filename().to_path_buf();
-    let path = std::fs::canonicalize(&given).unwrap_or(given);
+    // the file name as the pool was opened with it: no file-system call on the write path (a
+    // second spelling of the same file would get a lock of its own, and then meet SQLite's
+    // busy timeout as another process would)
+    let path = db.connect_options().get_filename().to_path_buf();
     let mut all = WRITERS.lock().unwrap_or_else(|e| e.into_inner());
     all.get_or_insert_with(HashMap::new)
         .entry(path)
@@ -111,13 +113,14 @@ async fn drain(db: Db, writer: Arc<Writer>) {
     };
     let mut delivers = Vec::with_capacity(jobs.len());
     let mut failed = false;
+    // after a failure the jobs left are dropped unrun: each writer is told nothing was stored
     for job in jobs {
-        if failed {
-            continue; // dropped unrun: its writer is told nothing was stored
-        }
         match job(&mut tx).await {
             Some(deliver) => delivers.push(deliver),
-            None => failed = true,
+            None => {
+                failed = true;
+                break;
+            }
         }
     }
     let outcome = if failed {

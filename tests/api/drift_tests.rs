@@ -52,6 +52,20 @@ fn with(base: Value, extra: Value) -> Value {
     Value::Object(map)
 }
 
+/// How many drift tests the app's database holds, and how many audit rows record them.
+async fn stored_counts(app: &TestApp) -> (i64, i64) {
+    let count = |sql: &'static str| async move {
+        sqlx::query_scalar::<_, i64>(sql)
+            .fetch_one(&app.db)
+            .await
+            .expect("count")
+    };
+    (
+        count("SELECT COUNT(*) FROM drift_tests").await,
+        count("SELECT COUNT(*) FROM audit_log WHERE entity = 'drift_test'").await,
+    )
+}
+
 pub fn record(token: &str) -> Value {
     with(
         readings(),
@@ -147,16 +161,8 @@ async fn a_resubmitted_client_token_is_stored_once() {
     assert_eq!(first, StatusCode::CREATED, "{a}");
     assert_eq!(second, StatusCode::OK, "{b}");
     assert_eq!(a["id"], b["id"]);
-    let rows: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM drift_tests")
-        .fetch_one(&app.db)
-        .await
-        .expect("count");
+    let (rows, audits) = stored_counts(&app).await;
     assert_eq!(rows, 1);
-    let audits: i64 =
-        sqlx::query_scalar("SELECT COUNT(*) FROM audit_log WHERE entity = 'drift_test'")
-            .fetch_one(&app.db)
-            .await
-            .expect("count");
     assert_eq!(audits, 1, "one audit row for one record");
 
     // The same token on another cylinder is a conflict, not a silent reuse.
@@ -540,16 +546,8 @@ async fn drift_tests_sent_at_once_are_each_stored_once_and_answered_on_their_own
             .count();
         assert_eq!(created, 1, "{token}: {statuses:?}");
     }
-    let rows: i64 = sqlx::query_scalar("SELECT COUNT(*) FROM drift_tests")
-        .fetch_one(&app.db)
-        .await
-        .expect("count");
+    let (rows, audits) = stored_counts(&app).await;
     assert_eq!(rows, 21, "the 20 of the burst and the one sent before it");
-    let audits: i64 =
-        sqlx::query_scalar("SELECT COUNT(*) FROM audit_log WHERE entity = 'drift_test'")
-            .fetch_one(&app.db)
-            .await
-            .expect("count");
     assert_eq!(audits, 21, "one audit row per stored test");
 }
 

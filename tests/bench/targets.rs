@@ -45,6 +45,33 @@ fn ran(results: &[SizeResult]) -> String {
     format!("sizes run: {}", sizes.join(", "))
 }
 
+/// A report's HTTP p99 against the same storage call run straight on the file: met within 3x.
+fn over_raw(
+    name: &'static str,
+    wanted: &'static str,
+    size: Option<&SizeResult>,
+    (http, raw): (&str, &str),
+    reason: impl Fn(&SizeResult, &Stats) -> String,
+    why_not: String,
+) -> Target {
+    match size.and_then(|r| Some((r, r.phase(http)?, r.phase(raw)?))) {
+        Some((r, http, raw)) => {
+            let ratio = http.p99_ms / raw.p99_ms.max(1e-6);
+            Target {
+                name,
+                wanted,
+                measured: format!(
+                    "{ratio:.2}x (p99 {:.1} vs {:.1} ms at {} machines)",
+                    http.p99_ms, raw.p99_ms, r.machines
+                ),
+                met: Some(ratio <= 3.0),
+                reason: reason(r, http),
+            }
+        }
+        None => not_judged(name, wanted, why_not),
+    }
+}
+
 /// Judges each target on the size it names (or the largest size run).
 pub fn judge(results: &[SizeResult]) -> Vec<Target> {
     let mut out = Vec::new();
@@ -108,30 +135,21 @@ pub fn judge(results: &[SizeResult]) -> Vec<Target> {
         None => not_judged("due report latency", wanted, ran(results)),
     });
 
-    let wanted = "HTTP p99 <= 3 x the same query run straight on the file";
     let due_size = at(results, 100_000).or(big);
-    out.push(
-        match due_size.and_then(|r| Some((r, r.phase("due_http")?, r.phase("due_raw")?))) {
-            Some((r, http, raw)) => {
-                let ratio = http.p99_ms / raw.p99_ms.max(1e-6);
-                Target {
-                    name: "due report vs raw query",
-                    wanted,
-                    measured: format!(
-                        "{ratio:.2}x (p99 {:.1} vs {:.1} ms at {} machines)",
-                        http.p99_ms, raw.p99_ms, r.machines
-                    ),
-                    met: Some(ratio <= 3.0),
-                    reason: format!(
-                        "HTTP adds the token check, JSON of {} items ({:.1} MB) and the transfer",
-                        r.due_items,
-                        http.mean_body_bytes / 1e6
-                    ),
-                }
-            }
-            None => not_judged("due report vs raw query", wanted, ran(results)),
+    out.push(over_raw(
+        "due report vs raw query",
+        "HTTP p99 <= 3 x the same query run straight on the file",
+        due_size,
+        ("due_http", "due_raw"),
+        |r, http| {
+            format!(
+                "HTTP adds the token check, JSON of {} items ({:.1} MB) and the transfer",
+                r.due_items,
+                http.mean_body_bytes / 1e6
+            )
         },
-    );
+        ran(results),
+    ));
 
     let wanted = "p99 < 50 ms at 100,000 machines, the due list of one site (1 client)";
     out.push(
@@ -158,26 +176,14 @@ pub fn judge(results: &[SizeResult]) -> Vec<Target> {
         },
     );
 
-    let wanted = "HTTP p99 <= 3 x the same query run straight on the file, one site";
-    out.push(
-        match due_size.and_then(|r| Some((r, r.phase("due_site")?, r.phase("due_site_raw")?))) {
-            Some((r, http, raw)) => {
-                let ratio = http.p99_ms / raw.p99_ms.max(1e-6);
-                Target {
-                    name: "due report vs raw query, one site",
-                    wanted,
-                    measured: format!(
-                        "{ratio:.2}x (p99 {:.1} vs {:.1} ms at {} machines)",
-                        http.p99_ms, raw.p99_ms, r.machines
-                    ),
-                    met: Some(ratio <= 3.0),
-                    reason: "HTTP adds the token check, the site check, the JSON and the transfer"
-                        .into(),
-                }
-            }
-            None => not_judged("due report vs raw query, one site", wanted, ran(results)),
-        },
-    );
+    out.push(over_raw(
+        "due report vs raw query, one site",
+        "HTTP p99 <= 3 x the same query run straight on the file, one site",
+        due_size,
+        ("due_site", "due_site_raw"),
+        |_, _| "HTTP adds the token check, the site check, the JSON and the transfer".into(),
+        ran(results),
+    ));
 
     let wanted = "p99 < 10 ms at 10,000 machines (32 clients)";
     out.push(

@@ -50,14 +50,10 @@ pub(super) async fn cylinder_rows(
     let before = due::add_days(query.as_of, 1)
         .unwrap_or(query.as_of)
         .to_string();
-    let listed_by = if scope.listed_only {
-        let horizon = due::add_days(query.as_of, query.window.days);
-        match horizon {
-            Some(horizon) => cutoffs(db, query, horizon).await?,
-            None => None,
-        }
-    } else {
-        None
+    let horizon = due::add_days(query.as_of, query.window.days).filter(|_| scope.listed_only);
+    let listed_by = match horizon {
+        Some(horizon) => cutoffs(db, query, horizon).await?,
+        None => None,
     };
     let mut sql = QueryBuilder::<Sqlite>::new(if listed_by.is_some() {
         "SELECT x.* FROM ("
@@ -69,9 +65,9 @@ pub(super) async fn cylinder_rows(
             m.kind AS machine_kind, m.status AS machine_status, c.function, c.created_at,
             c.drift_test_interval_days, ",
     );
-    for (table, name) in [
-        ("drift_tests", "last_drift_at"),
-        ("decay_tests", "last_decay_at"),
+    for (table, name, then) in [
+        ("drift_tests", "last_drift_at", ", "),
+        ("decay_tests", "last_decay_at", " "),
     ] {
         sql.push(format!(
             "(SELECT d.tested_at FROM {table} d WHERE d.cylinder_id = c.id AND d.tested_at < "
@@ -79,9 +75,8 @@ pub(super) async fn cylinder_rows(
         sql.push_bind(before.clone());
         sql.push(format!(
             " AND NOT EXISTS (SELECT 1 FROM {table} a WHERE a.amends_id = d.id)
-            ORDER BY d.tested_at DESC LIMIT 1) AS {name}"
+            ORDER BY d.tested_at DESC LIMIT 1) AS {name}{then}"
         ));
-        sql.push(if name == "last_drift_at" { ", " } else { " " });
     }
     sql.push(
         "FROM cylinders c

@@ -412,14 +412,7 @@ async fn hoses_are_listed_exactly_up_to_the_last_day_of_the_window() {
     // No age limit: only the replace-by date counts.
     assert_eq!(hose_ids(items(&app, AS_OF).await), vec![soon_replace_by]);
 
-    let (status, set) = app
-        .json(
-            "PUT",
-            "/api/v1/reports/settings",
-            Some(&json!({"hose_age_limit_years": 6})),
-        )
-        .await;
-    assert_eq!(status, StatusCode::OK, "{set}");
+    set_hose_age_limit(&app, 6).await;
     let mut want = vec![soon_by_age, over_by_age, soon_installed, soon_replace_by];
     want.sort();
     assert_eq!(hose_ids(items(&app, AS_OF).await), want);
@@ -449,32 +442,11 @@ async fn cylinders_are_listed_exactly_up_to_the_last_day_of_the_window() {
     // Drift-tested 2025-03-01 (due 04-30, overdue) but decay-tested 2025-05-15: due 07-14.
     let decay_later = cylinder(&app, unit, every(60)).await;
     drift_test(&app, decay_later, "2025-03-01T09:00:00Z", 0.5, 5.0).await;
-    let decay = json!({
-        "pressurised_end": "cap", "duration": "10 min",
-        "pressure_start": "200 bar", "pressure_end": "199 bar",
-        "oil_temperature_start": "41 degC", "oil_temperature_end": "41 degC",
-        "limit": {"pressure": "15 bar", "per": "10 min"},
-        "technician": "R. Okafor", "tested_at": "2025-05-15T10:00:00Z",
-    });
-    let (status, body) = app
-        .post_json(
-            &format!("/api/v1/cylinders/{decay_later}/decay-tests"),
-            &decay,
-        )
-        .await;
-    assert_eq!(status, StatusCode::CREATED, "{body}");
+    decay_test(&app, decay_later, "2025-05-15T10:00:00Z").await;
     // Drift-tested 2025-03-01 with a decay test after the report's day: still overdue.
     let decay_after_as_of = cylinder(&app, unit, every(60)).await;
     drift_test(&app, decay_after_as_of, "2025-03-01T09:00:00Z", 0.5, 5.0).await;
-    let mut late = decay.clone();
-    late["tested_at"] = json!("2025-06-02T10:00:00Z");
-    let (status, body) = app
-        .post_json(
-            &format!("/api/v1/cylinders/{decay_after_as_of}/decay-tests"),
-            &late,
-        )
-        .await;
-    assert_eq!(status, StatusCode::CREATED, "{body}");
+    decay_test(&app, decay_after_as_of, "2025-06-02T10:00:00Z").await;
 
     let listed: Vec<(i64, String)> = items(&app, AS_OF)
         .await

@@ -95,6 +95,35 @@ pub async fn drift_test(app: &TestApp, cylinder: i64, at: &str, drift_mm: f64, l
     assert_eq!(status, StatusCode::CREATED, "drift test: {reply}");
 }
 
+/// Records a pressure-decay test at `at`: 1 bar lost in 10 minutes at steady oil temperature,
+/// against 15 bar per 10 minutes.
+pub async fn decay_test(app: &TestApp, cylinder: i64, at: &str) {
+    let body = json!({
+        "pressurised_end": "cap", "duration": "10 min",
+        "pressure_start": "200 bar", "pressure_end": "199 bar",
+        "oil_temperature_start": "41 degC", "oil_temperature_end": "41 degC",
+        "limit": {"pressure": "15 bar", "per": "10 min"},
+        "technician": "R. Okafor", "tested_at": at,
+    });
+    let (status, reply) = app
+        .post_json(&format!("/api/v1/cylinders/{cylinder}/decay-tests"), &body)
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "decay test: {reply}");
+}
+
+/// Sets the shop's hose age limit; returns the settings as answered.
+pub async fn set_hose_age_limit(app: &TestApp, years: i64) -> Value {
+    let (status, set) = app
+        .json(
+            "PUT",
+            "/api/v1/reports/settings",
+            Some(&json!({"hose_age_limit_years": years})),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{set}");
+    set
+}
+
 /// Archives a machine (it leaves every report).
 pub async fn archive(app: &TestApp, machine: i64) {
     let (status, reply) = app

@@ -222,14 +222,7 @@ async fn hazards_list_pressures_above_ratings_expired_hoses_and_drift_trends() {
     assert_eq!(ids(&body["hoses"], "hose_id"), vec![h.expired_hose]);
     assert!(body["trends"].as_array().unwrap().is_empty(), "{body}");
 
-    let (status, set) = app
-        .json(
-            "PUT",
-            "/api/v1/reports/settings",
-            Some(&json!({"hose_age_limit_years": 6})),
-        )
-        .await;
-    assert_eq!(status, StatusCode::OK, "{set}");
+    let set = set_hose_age_limit(&app, 6).await;
     assert_eq!(set["hose_age_limit_years"], 6);
     // 6 years from 2018-01-01 is 2024-01-01 (past); from 2023-04-01, 2029 (not).
     let (_, body) = app

@@ -44,6 +44,14 @@ pub const CYLINDER_FIELDS: &[&str] = &[
     "buckling_safety_factor",
     "ratings",
     "units",
+    // Valves and air (api::calc_valves).
+    "holding_valve",
+    "holding_valve_setting",
+    "holding_valve_pilot_ratio",
+    "holding_valve_pilot",
+    "cap_port_centre",
+    "rod_port_centre",
+    "entrained_air",
 ];
 
 /// Reading fields of a drift-test request, on top of [`CYLINDER_FIELDS`].
@@ -152,6 +160,8 @@ pub fn parse_cylinder_request(f: &Fields) -> Result<CylinderInput, AppError> {
         youngs: input.buckling.youngs,
     };
     input.ratings = parse_ratings(f)?;
+    input.valves = crate::api::calc_valves::parse_valves(f)?;
+    input.entrained_air = crate::api::calc_valves::parse_air(f)?;
     input.validate().map_err(calc_error)?;
     Ok(input)
 }

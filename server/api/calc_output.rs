@@ -23,6 +23,12 @@ pub fn drift_response(r: &DriftReport, units: UnitSystem) -> Value {
         "position": len(r.position),
         "drift_rate": q(r.drift_rate, D::Speed, units),
         "thermal_drift": len(r.thermal_drift),
+        "thermal_cap_change": q(r.thermal_cap_change, D::Pressure, units),
+        "thermal_rod_change": q(r.thermal_rod_change, D::Pressure, units),
+        "other_end": {
+            "state": if r.other_end.open { "open_to_tank" } else { "blocked" },
+            "basis": r.other_end.basis.as_str(),
+        },
         "leak_drift": len(r.leak_drift),
         "leak_flow": q(r.leak_flow, D::Flow, units),
         "scaled_drift": len(r.scaled_drift),

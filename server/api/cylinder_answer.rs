@@ -5,7 +5,6 @@
 
 use crate::calc::CALC_VERSION;
 use crate::calc::analysis::{CylinderInput, CylinderReport};
-use crate::calc::bypass::Outcome;
 use crate::calc::quantity::{self, Dimension as D, Shown, UnitSystem};
 use serde::Serialize;
 
@@ -24,6 +23,10 @@ pub struct CylinderAnswer<'a> {
     forces: Option<Forces>,
     counterbalance: Counterbalance,
     trapped_oil_heating: Heating,
+    seal_bypass_warming: Option<BypassWarming>,
+    holding_valve: Option<HoldingValve>,
+    valve_centre: ValveCentre,
+    entrained_air: f64,
     tube: Option<Tube>,
     buckling: Option<Buckling>,
     highest_pressure: Shown,
@@ -60,6 +63,10 @@ struct SealBypass {
     intensification_factor: Option<f64>,
     settle_drift: Option<Shown>,
     explanation: &'static str,
+    travel_left: Shown,
+    bottoms: bool,
+    settle_drift_oil_only: Option<Shown>,
+    settle_drift_one_percent_air: Option<Shown>,
 }
 
 #[derive(Serialize)]
@@ -90,6 +97,9 @@ struct Counterbalance {
     load_pressure: Shown,
     pilot_ratio: Option<f64>,
     pilot_opening_pressure: Option<Shown>,
+    pilot_source: &'static str,
+    setting_used: Shown,
+    setting_recorded: bool,
 }
 
 #[derive(Serialize)]
@@ -99,6 +109,36 @@ struct Heating {
     rod_rise: Shown,
     cap_pressure: Shown,
     rod_pressure: Shown,
+    model: &'static str,
+    piston_motion: Shown,
+    bottoms: bool,
+    relieves: bool,
+    held_oil_rise: Shown,
+}
+
+#[derive(Serialize)]
+struct BypassWarming {
+    temperature_rise: Shown,
+    pressure: Shown,
+    piston_motion: Shown,
+    reaches_stop: bool,
+}
+
+#[derive(Serialize)]
+struct HoldingValve {
+    kind: &'static str,
+    setting: Option<Shown>,
+    pilot_ratio: Option<f64>,
+    pilot_source: &'static str,
+    pilot_opening_pressure: Option<Shown>,
+    relieves: bool,
+}
+
+/// Each work port's centre as recorded (`not_recorded`: analysed as blocked).
+#[derive(Serialize)]
+struct ValveCentre {
+    cap: &'static str,
+    rod: &'static str,
 }
 
 #[derive(Serialize)]
@@ -132,9 +172,6 @@ struct Check<'a> {
     rating: Shown,
     status: &'static str,
 }
-
-const INTENSIFIES: &str = "With both ports blocked and oil crossing the piston, both ends rise to the load over the rod area; the load settles by the settle drift and stops.";
-const RUNS_AWAY: &str = "With oil crossing the piston, no pressure can hold a load that pulls the rod out: the cylinder runs out and both ends fall below atmospheric pressure (cavitation). There is no final pressure.";
 
 /// The answer of `POST /api/v1/calc/cylinder`.
 pub fn cylinder_response<'a>(
@@ -171,10 +208,11 @@ pub fn cylinder_response<'a>(
             final_pressure: oq(b.final_pressure, D::Pressure),
             intensification_factor: b.intensification_factor,
             settle_drift: oq(b.settle_drift, D::Length),
-            explanation: match b.outcome {
-                Outcome::Intensifies => INTENSIFIES,
-                Outcome::RunsAway => RUNS_AWAY,
-            },
+            explanation: b.outcome.explanation(),
+            travel_left: q(b.travel_left, D::Length),
+            bottoms: b.bottoms,
+            settle_drift_oil_only: oq(b.settle_drift_oil_only, D::Length),
+            settle_drift_one_percent_air: oq(b.settle_drift_one_percent_air, D::Length),
         },
         rod_side_intensification: r.rod_side_intensification.zip(input.supply_pressure).map(
             |(rod, supply)| RodSide {
@@ -199,6 +237,9 @@ pub fn cylinder_response<'a>(
             load_pressure: p(r.counterbalance.load_pressure),
             pilot_ratio: r.counterbalance.pilot_ratio,
             pilot_opening_pressure: oq(r.counterbalance.pilot_opening_pressure, D::Pressure),
+            pilot_source: r.counterbalance.pilot_source.as_str(),
+            setting_used: p(r.counterbalance.setting_used),
+            setting_recorded: r.counterbalance.setting_recorded,
         },
         trapped_oil_heating: Heating {
             temperature_rise: q(r.heating.temperature_rise, D::TemperatureChange),
@@ -206,7 +247,37 @@ pub fn cylinder_response<'a>(
             rod_rise: p(r.heating.rod_rise),
             cap_pressure: p(r.heating.cap_pressure),
             rod_pressure: p(r.heating.rod_pressure),
+            model: "free_piston",
+            piston_motion: q(r.heating.piston_motion, D::Length),
+            bottoms: r.heating.bottoms,
+            relieves: r.heating.relieves,
+            held_oil_rise: p(r.heating.held_oil_rise),
         },
+        seal_bypass_warming: r.bypass_warming.map(|w| BypassWarming {
+            temperature_rise: q(w.temperature_rise, D::TemperatureChange),
+            pressure: p(w.pressure),
+            piston_motion: q(w.piston_motion, D::Length),
+            reaches_stop: w.reaches_stop,
+        }),
+        holding_valve: r.holding_valve.map(|v| HoldingValve {
+            kind: v.kind.as_str(),
+            setting: oq(v.setting, D::Pressure),
+            pilot_ratio: v.pilot_ratio,
+            pilot_source: v.pilot_source.as_str(),
+            pilot_opening_pressure: oq(v.pilot_opening_pressure, D::Pressure),
+            relieves: v.relieves,
+        }),
+        valve_centre: ValveCentre {
+            cap: input
+                .valves
+                .cap_centre
+                .map_or("not_recorded", |c| c.as_str()),
+            rod: input
+                .valves
+                .rod_centre
+                .map_or("not_recorded", |c| c.as_str()),
+        },
+        entrained_air: input.entrained_air,
         tube: r.tube.map(|t| Tube {
             pressure: p(t.pressure),
             hoop_stress: p(t.hoop_stress),

@@ -44,6 +44,7 @@ const CALC_FIELDS: &[&str] = &[
     "bulk_modulus",
     "cap_line_volume",
     "rod_line_volume",
+    "entrained_air",
     "units",
 ];
 

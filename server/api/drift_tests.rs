@@ -47,6 +47,9 @@ const CALC_FIELDS: &[&str] = &[
     "bulk_modulus",
     "cap_line_volume",
     "rod_line_volume",
+    "cap_port_centre",
+    "rod_port_centre",
+    "entrained_air",
     "units",
 ];
 

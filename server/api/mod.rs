@@ -11,6 +11,7 @@ pub mod openapi; // proof
 pub mod calc;
 pub mod calc_input;
 pub mod calc_output;
+pub mod calc_valves;
 pub mod cylinder_answer;
 
 // registry

@@ -1,14 +1,17 @@
 //! The whole cylinder analysis: every figure the calculator and the registry's safety panel
 //! show, from one [`CylinderInput`].
 
-use super::bypass::{self, Outcome, SealBypass, TubeWall};
-use super::circuit::{self, Counterbalance, Forces, Speeds};
-use super::cylinder::{self, End, Holding, LoadDirection};
+use super::bypass::{Outcome, SealBypass, TubeWall};
+use super::circuit::{self, Forces, Speeds};
+use super::cylinder::{self, Holding, LoadDirection};
 use super::error::CalcError;
 use super::quantity::UnitSystem;
 use super::ratings::{self, Check, Scenario, Status};
+use super::settle::{self, BypassWarming, Surroundings};
 use super::strength::{self, Buckling, TubeCheck};
+use super::valves::{self, Counterbalance};
 use super::{cautions, hazard_words};
+use super::{heating, valve_words};
 
 pub use super::cylinder_input::{CylinderInput, RodBuckling};
 pub use super::hazard_words::{component_words, scenario_words};
@@ -19,6 +22,7 @@ pub const NORMAL_HOLDING: &str = "normal_holding";
 pub const SEAL_BYPASS: &str = "seal_bypass";
 pub const ROD_SIDE_INTENSIFICATION: &str = "rod_side_intensification";
 pub const TRAPPED_OIL_HEATING: &str = "trapped_oil_heating";
+pub const SEAL_BYPASS_WARMING: &str = "seal_bypass_warming";
 
 /// Areas, m², and the area ratio.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
@@ -36,18 +40,8 @@ pub struct Volumes {
     pub rod: f64,
 }
 
-/// Trapped-oil heating of both blocked ends from the holding pressures.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
-pub struct Heating {
-    /// Temperature rise assumed, K.
-    pub temperature_rise: f64,
-    /// Pressure rise in each end, Pa.
-    pub cap_rise: f64,
-    pub rod_rise: f64,
-    /// Holding pressure plus rise, Pa.
-    pub cap_pressure: f64,
-    pub rod_pressure: f64,
-}
+/// Trapped-oil heating with the piston free under the load ([`heating::scenario`]).
+pub use super::heating::Heating;
 
 /// Everything [`analyse`] finds. SI units.
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -63,6 +57,10 @@ pub struct CylinderReport {
     pub forces: Option<Forces>,
     pub counterbalance: Counterbalance,
     pub heating: Heating,
+    /// A passing piston seal in a warming cylinder, where the bypass intensifies.
+    pub bypass_warming: Option<BypassWarming>,
+    /// The load-holding valve's figures, where one is recorded.
+    pub holding_valve: Option<valve_words::HoldingValveReport>,
     pub scenarios: Vec<Scenario>,
     pub checks: Vec<Check>,
     pub tube: Option<TubeCheck>,
@@ -89,29 +87,24 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
     let position = input.position();
     let dir = input.load_direction;
     let holding = cylinder::holding_pressures(c, input.load, dir);
-    let bypass = bypass::seal_bypass(c, position, input.load, dir, &input.trapped);
+    let around = Surroundings {
+        air: input.entrained_air,
+        valves: input.valves,
+    };
+    let bypass = settle::seal_bypass_with(c, position, input.load, dir, &input.trapped, &around);
     let rod_side = input
         .supply_pressure
         .map(|p| circuit::rod_side_intensification(c, p, input.load, dir));
-    let hold_end = dir.holding_end();
-    let heat = |end: End| {
-        circuit::trapped_heating(
-            c,
-            &input.trapped,
-            end,
-            position,
-            input.oil_expansion,
-            input.temperature_rise,
-        )
-    };
-    let (cap_rise, rod_rise) = (heat(End::Cap), heat(End::Rod));
-    let heating = Heating {
-        temperature_rise: input.temperature_rise,
-        cap_rise,
-        rod_rise,
-        cap_pressure: holding.cap_pressure + cap_rise,
-        rod_pressure: holding.rod_pressure + rod_rise,
-    };
+    let heating = heating::scenario(input, &holding, position);
+    let warming = settle::bypass_warming(
+        c,
+        &input.trapped,
+        &bypass,
+        position,
+        input.load,
+        input.oil_expansion,
+        input.temperature_rise,
+    );
 
     let mut scenarios = vec![Scenario {
         name: NORMAL_HOLDING,
@@ -137,6 +130,13 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         cap: heating.cap_pressure,
         rod: heating.rod_pressure,
     });
+    if let Some(w) = warming {
+        scenarios.push(Scenario {
+            name: SEAL_BYPASS_WARMING,
+            cap: w.pressure,
+            rod: w.pressure,
+        });
+    }
     let checks = ratings::check_ratings(&input.ratings, &scenarios);
     let highest = scenarios
         .iter()
@@ -159,7 +159,7 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         _ => None,
     };
     let buckling = buckling(input);
-    let hazards = hazard_words::cylinder_hazards(
+    let mut hazards = hazard_words::cylinder_hazards(
         input,
         &holding,
         &bypass,
@@ -168,9 +168,15 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         buckling.as_ref(),
         units,
     );
+    hazards.extend(valve_words::hazards(input, &bypass, &heating, units));
     let over = checks.iter().any(|k| k.status != Status::Ok)
         || tube.is_some_and(|t| t.status != Status::Ok);
-    let runaway = bypass.outcome == Outcome::RunsAway;
+    let runaway = matches!(
+        bypass.outcome,
+        Outcome::RunsAway | Outcome::Sinks | Outcome::Creeps
+    );
+    let mut cautions = cautions::for_result(over, runaway);
+    cautions.extend(valve_words::cautions(input, &bypass, &heating));
 
     Ok(CylinderReport {
         position,
@@ -189,15 +195,23 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         rod_side_intensification: rod_side,
         speeds: input.flow.map(|q| circuit::speeds(c, q)),
         forces: input.supply_pressure.map(|p| circuit::forces(c, p)),
-        counterbalance: circuit::counterbalance(holding.at(hold_end), input.pilot_ratio),
+        counterbalance: valves::counterbalance(
+            c,
+            input.load,
+            dir,
+            &input.valves,
+            input.pilot_ratio,
+        ),
         heating,
+        bypass_warming: warming,
+        holding_valve: valve_words::holding_valve(input),
         scenarios,
         checks,
         tube,
         buckling,
         highest_pressure: highest,
         hazards,
-        cautions: cautions::for_result(over, runaway),
+        cautions,
     })
 }
 

@@ -2,7 +2,7 @@
 //! load settles before it stops.
 
 use super::cylinder::{Cylinder, End, LoadDirection};
-use super::fluid;
+use super::{fluid, settle, walls};
 use serde::Serialize;
 
 /// The oil and walls that take up a pressure rise in one end: the line between the port and
@@ -67,13 +67,16 @@ impl Trapped {
 
     /// Compliance of one end at `position`, m³/Pa: the volume of oil that must be pushed in
     /// to raise that end's pressure by one pascal with the piston held still:
-    /// `C = V_chamber / Be_chamber + V_line / B_oil + C_line`.
+    /// `C = (V_chamber + V_line) / B_oil + C_wall + C_line`, with the wall term of
+    /// [`walls::wall_compliance`] (the bore's whole cross-section grows, and in the rod end the
+    /// rod shrinks; Lamé) when the tube is given, else rigid walls.
     /// Origin: definition of the bulk modulus, `dV = V dp / B`, summed over the parts.
     pub fn compliance(&self, cylinder: &Cylinder, end: End, position: f64) -> f64 {
         let line = self.line(end);
-        cylinder.volume(end, position) / self.chamber_bulk_modulus(cylinder)
-            + line.volume / self.bulk_modulus
-            + line.expansion
+        let wall = self
+            .tube
+            .map_or(0.0, |t| walls::wall_compliance(cylinder, &t, end, position));
+        (cylinder.volume(end, position) + line.volume) / self.bulk_modulus + wall + line.expansion
     }
 
     /// Oil volume of one end with its line, m³.
@@ -90,6 +93,14 @@ pub enum Outcome {
     Intensifies,
     /// The cylinder cannot hold the load: it runs out and the chambers cavitate.
     RunsAway,
+    /// A load pulling the rod out at full extension: it rests on the cylinder's stop.
+    RestsOnStop,
+    /// The rod end is open to tank: oil crosses the piston and goes to tank, the load sinks
+    /// and nothing intensifies.
+    Sinks,
+    /// A counterbalance valve on the holding end relieves below the bypass pressure: both ends
+    /// stop at its setting and the load creeps down as the valve lets oil out.
+    Creeps,
 }
 
 impl Outcome {
@@ -97,6 +108,30 @@ impl Outcome {
         match self {
             Outcome::Intensifies => "intensifies",
             Outcome::RunsAway => "runs_away",
+            Outcome::RestsOnStop => "rests_on_stop",
+            Outcome::Sinks => "sinks",
+            Outcome::Creeps => "creeps",
+        }
+    }
+
+    /// The outcome in a sentence, for the calculator's answer and page.
+    pub fn explanation(self) -> &'static str {
+        match self {
+            Outcome::Intensifies => {
+                "With both ports blocked and oil crossing the piston, both ends rise to the load over the rod area; the load settles by the settle drift and stops (on its stop, at a lower pressure, if the travel left runs out first)."
+            }
+            Outcome::RunsAway => {
+                "With oil crossing the piston, no pressure can hold a load that pulls the rod out: the cylinder runs out and both ends fall below atmospheric pressure (cavitation). There is no final pressure."
+            }
+            Outcome::RestsOnStop => {
+                "At full extension a load that pulls the rod out rests on the cylinder's stop: oil crossing the piston cannot move it further. There is no final pressure."
+            }
+            Outcome::Sinks => {
+                "The rod end is open to tank: oil crossing the piston goes to tank, the load sinks and no pressure rises. There is no final pressure."
+            }
+            Outcome::Creeps => {
+                "A counterbalance valve on the holding end relieves below the bypass pressure: both ends stop at its setting and the load creeps down as the valve lets oil out."
+            }
         }
     }
 }
@@ -111,6 +146,15 @@ pub struct SealBypass {
     pub intensification_factor: Option<f64>,
     /// How far the load sinks before the pressure rise is taken up, m; `None` on a run-away.
     pub settle_drift: Option<f64>,
+    /// Travel left in the load's direction before the piston reaches its stop, m.
+    pub travel_left: f64,
+    /// The settle was limited by the travel left: the piston bottoms and the ends equalise
+    /// below `load / A_rod` (`final_pressure` is that lower pressure).
+    pub bottoms: bool,
+    /// The settle with oil, walls and lines only (no entrained air), m.
+    pub settle_drift_oil_only: Option<f64>,
+    /// The settle with 1 % entrained air (by volume at atmospheric pressure), m.
+    pub settle_drift_one_percent_air: Option<f64>,
 }
 
 /// Piston seal bypass with both work ports blocked, for a load `load` (N) at extension
@@ -127,14 +171,19 @@ pub struct SealBypass {
 /// shrinks by `A_rod dx`. That shortfall is made up only by squeezing the oil and stretching
 /// the walls while each end's pressure moves from its holding value to `p`:
 /// `A_rod dx = C_cap (p - p_cap0) + C_rod (p - p_rod0)`, with each end's compliance
-/// `C = V_chamber / Be + V_line / B + C_line` ([`Trapped::compliance`]) at the position
-/// (mass balance, linearised for a small `dx`). Tube compliance is the Lamé thick-wall term of
-/// [`fluid::tube_bulk_modulus`]; hose swell is the line's expansion per unit pressure.
+/// `C = (V_chamber + V_line) / B + C_wall + C_line` ([`Trapped::compliance`]) at the position
+/// (mass balance, linearised for a small `dx`). The wall term is the Lamé bore growth over
+/// each end's length, with the rod's shrinkage in the rod end ([`walls::wall_compliance`]);
+/// hose swell is the line's expansion per unit pressure. The settle never exceeds the travel
+/// left: a piston that bottoms first leaves both ends at the lower pressure the same mass
+/// balance gives with `dx` set to the travel left ([`settle::seal_bypass_with`], which also
+/// takes entrained air and the valves).
 ///
 /// Load pulling the rod out (held by the rod end): a bypass lets rod-end oil into the cap end,
 /// which needs more oil than the rod end gives (`A_cap > A_annulus`); no pressure can hold the
 /// load (`p A_annulus - p A_cap < 0` for any `p > 0`), the cylinder runs out and both ends fall
-/// below atmospheric (cavitation). Common practice, REFERENCES.md "Trade facts".
+/// below atmospheric (cavitation). Common practice, REFERENCES.md "Trade facts". At full
+/// extension it has nowhere to go and rests on the stop.
 pub fn seal_bypass(
     cylinder: &Cylinder,
     position: f64,
@@ -142,25 +191,12 @@ pub fn seal_bypass(
     direction: LoadDirection,
     trapped: &Trapped,
 ) -> SealBypass {
-    match direction {
-        LoadDirection::Extend => SealBypass {
-            outcome: Outcome::RunsAway,
-            final_pressure: None,
-            intensification_factor: None,
-            settle_drift: None,
-        },
-        LoadDirection::Retract => {
-            let hold = load / cylinder.cap_area();
-            let final_pressure = load / cylinder.rod_area();
-            let absorbed = trapped.compliance(cylinder, End::Cap, position)
-                * (final_pressure - hold)
-                + trapped.compliance(cylinder, End::Rod, position) * final_pressure;
-            SealBypass {
-                outcome: Outcome::Intensifies,
-                final_pressure: Some(final_pressure),
-                intensification_factor: Some(cylinder.cap_area() / cylinder.rod_area()),
-                settle_drift: Some(absorbed / cylinder.rod_area()),
-            }
-        }
-    }
+    settle::seal_bypass_with(
+        cylinder,
+        position,
+        load,
+        direction,
+        trapped,
+        &settle::Surroundings::default(),
+    )
 }

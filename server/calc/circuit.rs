@@ -1,5 +1,5 @@
-//! Circuit figures: rod-side intensification, speeds and flows, counterbalance valve setting,
-//! trapped-oil heating. SI units: Pa, N, m³/s, m/s, K.
+//! Circuit figures: rod-side intensification, speeds and flows, the counterbalance factor,
+//! trapped-oil heating of a held end (the valves themselves: `valves`). SI units: Pa, N, m³/s, m/s, K.
 
 use super::bypass::Trapped;
 use super::cylinder::{Cylinder, End, LoadDirection};
@@ -84,38 +84,9 @@ pub fn forces(cylinder: &Cylinder, supply: f64) -> Forces {
 /// (common practice, REFERENCES.md "Trade facts").
 pub const COUNTERBALANCE_FACTOR: f64 = 1.3;
 
-/// Counterbalance valve figures on the holding end.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
-pub struct Counterbalance {
-    /// Suggested setting, Pa: 1.3 x the load-induced pressure.
-    pub setting: f64,
-    /// The load-induced pressure it was based on, Pa.
-    pub load_pressure: f64,
-    /// Pilot ratio used, if given.
-    pub pilot_ratio: Option<f64>,
-    /// Pilot pressure that opens the valve with the load on it, Pa, if a ratio is given.
-    pub pilot_opening_pressure: Option<f64>,
-}
-
-/// Counterbalance valve setting and pilot opening pressure, Pa.
-///
-/// Setting `p_set = 1.3 p_load` (common practice). The valve opens when the load pressure plus
-/// the pilot pressure times the pilot ratio `R` reaches the setting:
-/// `p_load + R p_pilot = p_set`, so `p_pilot = (p_set - p_load) / R`, never below 0
-/// (the usual force balance on the poppet; common practice).
-pub fn counterbalance(load_pressure: f64, pilot_ratio: Option<f64>) -> Counterbalance {
-    let setting = COUNTERBALANCE_FACTOR * load_pressure;
-    let pilot_ratio = pilot_ratio.filter(|r| r.is_finite() && *r > 0.0);
-    Counterbalance {
-        setting,
-        load_pressure,
-        pilot_ratio,
-        pilot_opening_pressure: pilot_ratio.map(|r| ((setting - load_pressure) / r).max(0.0)),
-    }
-}
-
 /// Pressure rise in one blocked end (with its line) when the trapped oil warms by
-/// `temperature_rise` (K), the piston held still, Pa.
+/// `temperature_rise` (K), the piston held still (on a stop), Pa. With the piston free under a
+/// load the ends are coupled: see [`super::heating`].
 ///
 /// The oil would grow by `alpha V_oil dT`; the closed end takes that back by compression and
 /// wall stretch, so `dp = alpha V_oil dT / C` with `C` the end's compliance

@@ -6,6 +6,7 @@ use super::error::{CalcError, MAX_LENGTH, MAX_PRESSURE, in_range};
 use super::fluid;
 use super::ratings::Rating;
 use super::strength::{self, EndCondition};
+use super::valves::Valves;
 use serde::Serialize;
 
 /// Rod buckling inputs.
@@ -49,6 +50,10 @@ pub struct CylinderInput {
     pub tube_yield: Option<f64>,
     pub tube_safety_factor: f64,
     pub buckling: RodBuckling,
+    /// Load-holding valve and directional-valve centre at each work port.
+    pub valves: Valves,
+    /// Entrained air, volume fraction at atmospheric pressure (0: none), for settle and decay.
+    pub entrained_air: f64,
 }
 
 impl CylinderInput {
@@ -81,6 +86,8 @@ impl CylinderInput {
                 safety_factor: strength::DEFAULT_BUCKLING_SAFETY_FACTOR,
                 youngs: fluid::STEEL_YOUNGS_MODULUS,
             },
+            valves: Valves::default(),
+            entrained_air: 0.0,
         }
     }
 
@@ -214,6 +221,14 @@ impl CylinderInput {
             1e9,
             MAX_PRESSURE,
         )?;
+        in_range(
+            "entrained_air",
+            "the entrained air fraction",
+            self.entrained_air,
+            0.0,
+            0.5,
+        )?;
+        self.valves.validate(self.load_direction, self.load)?;
         Ok(())
     }
 }

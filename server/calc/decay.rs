@@ -7,6 +7,7 @@ use super::cylinder::End;
 use super::diagnosis::{Diagnosis, pressure_tolerance};
 use super::drift::Verdict;
 use super::error::{CalcError, MAX_PRESSURE, in_range};
+use super::heating;
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::Exposure;
 use super::{cautions, words};
@@ -114,8 +115,10 @@ fn validate(r: &DecayReadings) -> Result<(), CalcError> {
 /// Analyses a pressure-decay test on the cylinder in `input`.
 ///
 /// Expected change from the temperature change `dp = alpha V_oil dT / C` with `C` the end's
-/// compliance ([`circuit::trapped_heating`]; about `B alpha dT`, 10.5 bar per degC for mineral
-/// oil, REFERENCES.md [C]); leak change = measured - expected; leaked volume `-C dp_leak`
+/// compliance with its walls (Lamé bore growth; in the rod end also the rod's shrinkage) and
+/// any entrained air at the mean test pressure ([`heating::held_change`]; about `B alpha dT`,
+/// 10.5 bar per degC for mineral oil, REFERENCES.md [C]); leak change = measured - expected;
+/// leaked volume `-C dp_leak`
 /// (definition of compliance) over the duration gives the leak flow. Chamber volume at the end
 /// of stroke: `A_cap L` for the cap end (fully extended), `A_annulus L` for the rod end (fully
 /// retracted). A pressure change below [`pressure_tolerance`] of the start pressure is not
@@ -134,11 +137,19 @@ pub fn analyse_decay(
         End::Rod => 0.0,
     };
     let dt = r.oil_temperature_end - r.oil_temperature_start;
-    let thermal =
-        circuit::trapped_heating(c, &input.trapped, end, position, input.oil_expansion, dt);
+    let mean = 0.5 * (r.pressure_start + r.pressure_end);
+    let (thermal, compliance) = heating::held_change(
+        c,
+        &input.trapped,
+        end,
+        position,
+        input.oil_expansion,
+        dt,
+        input.entrained_air,
+        mean,
+    );
     let measured = r.pressure_end - r.pressure_start;
     let leak = measured - thermal;
-    let compliance = input.trapped.compliance(c, end, position);
     let leak_flow = (-leak).max(0.0) * compliance / r.duration;
     let per = r.limit.map_or(3600.0, |l| l.per);
     let scaled_drop = -measured * per / r.duration;

@@ -21,9 +21,9 @@
 
 use super::analysis::{CylinderReport, SEAL_BYPASS, component_words};
 use super::bypass::Outcome;
-use super::circuit;
 use super::cylinder::{End, LoadDirection};
 use super::drift::{DriftReadings, DriftReport, READING_TOLERANCE, THERMAL_TOLERANCE, Verdict};
+use super::other_end::{Basis, OtherEnd};
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::Status;
 use super::{analysis::CylinderInput, cautions, words};
@@ -126,24 +126,24 @@ pub fn diagnose(
     // Pressure signature of a bypass (loads pushing the rod in only).
     let holding_pressure = r.pressures.start(hold).unwrap_or(cyl.holding.at(hold));
     let tol_p = pressure_tolerance(holding_pressure);
+    // The rise the temperature change explains in each end (free piston; `other_end`).
     let warm = |end: End| {
-        circuit::trapped_heating(
-            &input.cylinder,
-            &input.trapped,
-            end,
-            report.position,
-            input.oil_expansion,
-            dt,
-        )
+        match end {
+            End::Cap => report.thermal_cap_change,
+            End::Rod => report.thermal_rod_change,
+        }
         .max(0.0)
     };
+    reasoning.push(other_end_words(report.other_end, other));
     let threshold = tol_p + warm(other);
     let other_pair = r.pressures.pair(other);
     let hold_pair = r.pressures.pair(hold);
     let other_rose =
         other_pair.is_some_and(|(a, b)| b - a > threshold && holding_pressure - a > tol_p);
-    let hold_rose = hold_pair.is_some_and(|(a, b)| b - a > threshold);
-    let bypass_signature = dir == LoadDirection::Retract && (other_rose || hold_rose);
+    let hold_rose = hold_pair.is_some_and(|(a, b)| b - a > tol_p + warm(hold));
+    // A non-holding end open to tank cannot show a bypass by pressure.
+    let bypass_signature =
+        dir == LoadDirection::Retract && !report.other_end.open && (other_rose || hold_rose);
 
     let tol_leak = READING_TOLERANCE.max(THERMAL_TOLERANCE * report.thermal_drift.abs());
     let leaking = report.leak_drift > tol_leak;
@@ -196,17 +196,26 @@ pub fn diagnose(
             words::flow(report.leak_flow, units),
             end_words(hold)
         ));
-        leak_cause(
-            dir,
-            hold,
-            other,
-            other_pair,
-            hold_pair,
-            threshold,
-            tol_p,
-            &pr,
-            &mut reasoning,
-        )
+        if dir == LoadDirection::Retract && report.other_end.open {
+            reasoning.push(format!(
+                "With the {} open to tank, oil crossing the piston goes to tank just as oil leaking from the {} does, so the pressures cannot tell a piston seal bypass from a leak in the holding circuit. Block both ports, fit gauges on both and repeat.",
+                end_words(other),
+                end_words(hold)
+            ));
+            Diagnosis::Inconclusive
+        } else {
+            leak_cause(
+                dir,
+                hold,
+                other,
+                other_pair,
+                hold_pair,
+                threshold,
+                tol_p,
+                &pr,
+                &mut reasoning,
+            )
+        }
     };
 
     if report.leak_drift < -tol_leak && !bypass_signature {
@@ -283,6 +292,13 @@ pub fn diagnose(
                     ));
                 }
             }
+            Outcome::RestsOnStop => {
+                hazards.push(cyl.seal_bypass.outcome.explanation().into());
+            }
+            Outcome::Sinks | Outcome::Creeps => {
+                runaway = true;
+                hazards.push(cyl.seal_bypass.outcome.explanation().into());
+            }
             Outcome::RunsAway => {
                 runaway = true;
                 hazards.push("A passing piston seal cannot hold a load that pulls the rod out: the cylinder can run out, with both ends falling to vacuum.".into());
@@ -301,6 +317,28 @@ pub fn diagnose(
         reasoning,
         hazards,
         cautions: cautions::for_result(over_rating, runaway),
+    }
+}
+
+/// Where the analysis took the non-holding end's state from, in a sentence.
+fn other_end_words(state: OtherEnd, other: End) -> String {
+    let port = end_adj(other);
+    match (state.basis, state.open) {
+        (Basis::Recorded, true) => {
+            format!("The {port} port is open to tank in the valve's centre, as recorded.")
+        }
+        (Basis::Recorded, false) => {
+            format!("The {port} port is blocked in the valve's centre, as recorded.")
+        }
+        (Basis::Readings, true) => format!(
+            "The {port} pressure stayed at zero, so that port was taken as open to tank during the test."
+        ),
+        (Basis::Readings, false) => format!(
+            "The {port} pressure held or changed, so that port was taken as blocked during the test."
+        ),
+        (Basis::Assumed, _) => format!(
+            "The {port} port's state was not recorded and its pressure not read: it is taken as blocked, the case in which a temperature change explains the least drift, so no leak is explained away."
+        ),
     }
 }
 

@@ -8,6 +8,7 @@ use super::analysis::{self, CylinderInput};
 use super::cylinder::{self, End, LoadDirection};
 use super::diagnosis::{self, Diagnosis};
 use super::error::{CalcError, MAX_LENGTH, MAX_PRESSURE, in_range};
+use super::other_end::{self, OtherEnd};
 use super::quantity::UnitSystem;
 use serde::Serialize;
 
@@ -105,8 +106,14 @@ pub struct DriftReport {
     pub position: f64,
     /// Drift per second, m/s.
     pub drift_rate: f64,
-    /// Drift explained by the oil's temperature change, m (positive for cooling).
+    /// Drift explained by the oil's temperature change, m (positive for cooling), with the
+    /// piston free under the load and the other end as `other_end` says.
     pub thermal_drift: f64,
+    /// Pressure changes the temperature change explains in each end, Pa.
+    pub thermal_cap_change: f64,
+    pub thermal_rod_change: f64,
+    /// The non-holding end during the test (open to tank or blocked) and why we think so.
+    pub other_end: OtherEnd,
     /// Measured minus thermal drift, m.
     pub leak_drift: f64,
     /// Equivalent leakage out of the holding end, m³/s (0 when the leak drift is not positive).
@@ -176,7 +183,8 @@ pub fn validate(input: &CylinderInput, r: &DriftReadings) -> Result<(), CalcErro
     Ok(())
 }
 
-/// Drift explained by a temperature change of the oil held in the holding end, m.
+/// Drift explained by a temperature change of the oil held in the holding end with the other
+/// end open to tank (or cavitating), m.
 ///
 /// `x = -alpha (V_hold / A_hold) dT`, with `V_hold` the oil in the holding end and its line,
 /// `A_hold` that end's piston area, `dT` end minus start: cooling (`dT < 0`) shrinks the oil
@@ -194,7 +202,9 @@ pub fn thermal_drift(
 /// Analyses a position-drift test for the cylinder in `input` (its position is taken from the
 /// start position when given, else from `input`).
 ///
-/// Drift rate `x / t`; thermal drift from [`thermal_drift`]; leak drift = measured - thermal;
+/// Drift rate `x / t`; thermal drift and the pressure changes it brings from
+/// [`other_end::thermal`] (the piston free under the load; with the other end open to tank
+/// this is [`thermal_drift`]); leak drift = measured - thermal;
 /// leak flow = `A_hold x_leak / t` (continuity); scaled drift = `x per / t`; verdict `pass`
 /// when the scaled drift is at most the limit distance. Diagnosis and reasoning from
 /// [`diagnosis::diagnose`]; `units` chooses the units written into the texts.
@@ -219,9 +229,19 @@ pub fn analyse_drift(
         ),
     };
     let dt = r.oil_temperature_end - r.oil_temperature_start;
-    let hold_volume = input.trapped.oil_volume(c, hold, position);
     let hold_area = c.area(hold);
-    let thermal = thermal_drift(hold_volume, hold_area, input.oil_expansion, dt);
+    let holding = cylinder::holding_pressures(c, input.load, dir);
+    let p = r.pressures;
+    let start = (
+        p.cap_start.unwrap_or(holding.cap_pressure),
+        p.rod_start.unwrap_or(holding.rod_pressure),
+    );
+    let other = other_end::state(input, &p, holding.at(hold));
+    let t = other_end::thermal(input, position, dt, start, other);
+    let thermal = match dir {
+        LoadDirection::Retract => -t.motion,
+        LoadDirection::Extend => t.motion,
+    };
     let leak = drift - thermal;
     let per = r.limit.map_or(3600.0, |l| l.per);
     let scale = per / r.duration;
@@ -239,6 +259,9 @@ pub fn analyse_drift(
         position,
         drift_rate: drift / r.duration,
         thermal_drift: thermal,
+        thermal_cap_change: t.cap_change,
+        thermal_rod_change: t.rod_change,
+        other_end: other,
         leak_drift: leak,
         leak_flow: hold_area * leak.max(0.0) / r.duration,
         scaled_drift: scaled,

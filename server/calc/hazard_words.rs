@@ -2,7 +2,8 @@
 //! sentence writes them. Words only: every figure comes from `analysis`.
 
 use super::analysis::{
-    CylinderInput, NORMAL_HOLDING, ROD_SIDE_INTENSIFICATION, SEAL_BYPASS, TRAPPED_OIL_HEATING,
+    CylinderInput, NORMAL_HOLDING, ROD_SIDE_INTENSIFICATION, SEAL_BYPASS, SEAL_BYPASS_WARMING,
+    TRAPPED_OIL_HEATING,
 };
 use super::bypass::{Outcome, SealBypass};
 use super::cylinder::Holding;
@@ -91,6 +92,7 @@ pub fn scenario_words(scenario: &str) -> &'static str {
         SEAL_BYPASS => "a piston seal bypass",
         ROD_SIDE_INTENSIFICATION => "rod-side intensification at supply pressure",
         TRAPPED_OIL_HEATING => "trapped-oil heating",
+        SEAL_BYPASS_WARMING => "a piston seal bypass in a warming cylinder",
         _ => "this scenario",
     }
 }

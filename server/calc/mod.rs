@@ -6,6 +6,7 @@
 
 pub mod quantity;
 
+pub mod air;
 pub mod analysis;
 pub mod bypass;
 pub mod cautions;
@@ -19,12 +20,18 @@ pub mod due;
 pub mod error;
 pub mod fluid;
 pub mod hazard_words;
+pub mod heating;
 pub mod installed;
+pub mod other_end;
 pub mod ratings;
+pub mod settle;
 pub mod strength;
 pub mod trend;
+pub mod valve_words;
+pub mod valves;
+pub mod walls;
 pub mod words;
 
 /// Version of the calculations, stored with every analysed record so that a result can be
 /// traced to the formulas that made it. Bump on any change that alters a figure.
-pub const CALC_VERSION: &str = "calc-1.0.0";
+pub const CALC_VERSION: &str = "calc-1.1.0";

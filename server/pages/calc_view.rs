@@ -2,7 +2,6 @@
 //! figures in the chosen units. No formulas here: every figure comes from `calc`.
 
 use crate::calc::analysis::{CylinderInput, CylinderReport, component_words, scenario_words};
-use crate::calc::bypass::Outcome;
 use crate::calc::decay::DecayReport;
 use crate::calc::drift::DriftReport;
 use crate::calc::quantity::{self, Dimension as D, UnitSystem};
@@ -163,14 +162,7 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
             row("Rod-end pressure", p(r.holding.rod_pressure)),
         ],
         bypass_outcome: b.outcome.as_str(),
-        bypass_explanation: match b.outcome {
-            Outcome::Intensifies => {
-                "Both ends rise to the load over the rod area; the load settles a little and stops."
-            }
-            Outcome::RunsAway => {
-                "No pressure can hold a load that pulls the rod out: the cylinder runs out and both ends fall below atmospheric (cavitation). There is no final pressure."
-            }
-        },
+        bypass_explanation: b.outcome.explanation(),
         bypass,
         circuit,
         strength,

@@ -236,6 +236,7 @@ pub fn scenario_heading(name: &str) -> &'static str {
         analysis::SEAL_BYPASS => "Piston seal bypass",
         analysis::ROD_SIDE_INTENSIFICATION => "Rod side at relief setting",
         analysis::TRAPPED_OIL_HEATING => "Trapped oil warming",
+        analysis::SEAL_BYPASS_WARMING => "Seal bypass while warming",
         _ => "Scenario",
     }
 }

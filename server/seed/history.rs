@@ -119,7 +119,20 @@ fn readings(c: &Cylinder, s: Story, k: usize, n: usize) -> Map<String, Value> {
             pressures(&mut m, cap_holds, hold, Some(other));
             return m;
         }
-        Story::ValveLeak if last => drift = 9.0,
+        Story::ValveLeak if last => {
+            // The technician noted the other port blocked in the valve's centre: with its
+            // gauge at zero throughout, that rules out a piston seal bypass.
+            drift = 9.0;
+            let mut m = base(drift, duration, t0, t_end);
+            pressures(&mut m, cap_holds, hold, Some(other));
+            let port = if cap_holds {
+                "rod_port_centre"
+            } else {
+                "cap_port_centre"
+            };
+            m.insert(port.into(), json!("blocked"));
+            return m;
+        }
         Story::Settling if last => {
             drift = 40.0;
             let mut m = base(drift, duration, t0, t_end);

@@ -80,25 +80,6 @@ fn speed_rule_of_thumb_3_85_gpm_per_square_inch() {
 }
 
 #[test]
-fn counterbalance_is_set_at_1_3_times_the_load_pressure() {
-    // REFERENCES.md "Trade facts" (common practice): about 1.3 x the highest load-induced
-    // pressure. Opening (common practice, poppet force balance): p_load + R p_pilot = p_set;
-    // [C] 100 bar load, ratio 4: setting 130 bar, pilot (130 - 100) / 4 = 7.5 bar.
-    let cb = circuit::counterbalance(100e5, Some(4.0));
-    close(cb.setting / 1e5, 130.0, FIGURE, "setting");
-    close(
-        cb.pilot_opening_pressure.unwrap() / 1e5,
-        7.5,
-        FIGURE,
-        "pilot opening pressure",
-    );
-    assert_eq!(
-        circuit::counterbalance(100e5, None).pilot_opening_pressure,
-        None
-    );
-}
-
-#[test]
 fn trapped_oil_gains_about_10_5_bar_per_degree() {
     // REFERENCES.md "Fluid properties" [C]: 1.5 GPa x 7e-4 = 10.5 bar per degC
     // (bulk modulus and expansion from memory, Rabie for the 7e-4).

@@ -11,9 +11,13 @@ mod diagnosis;
 mod due;
 mod fluid;
 mod geometry;
+mod heating;
 mod properties;
 mod strength;
+mod stroke_ends;
 mod units;
+mod valves;
+mod walls;
 
 /// Tolerance for figures (pressures, areas, forces, speeds): 0.5 %.
 pub const FIGURE: f64 = 0.005;

@@ -1,5 +1,7 @@
-//! Property tests (proptest): no panic for any input, bypass pressure never below holding,
-//! settle drift grows with oil volume and falls with bulk modulus, unit round trips.
+//! Property tests (proptest): no panic for any input, finite results, bypass pressure never
+//! below holding (short of a stop), settle never beyond the travel left, a free piston's
+//! rod-end heating rise at least K alpha dT, refusals for bad input, settle drift grows with
+//! oil volume and falls with bulk modulus, unit round trips.
 
 use loadhold::calc::analysis::{self, CylinderInput};
 use loadhold::calc::bypass::{self, Line, Trapped, TubeWall};
@@ -8,6 +10,7 @@ use loadhold::calc::decay::{self, DecayLimit, DecayReadings};
 use loadhold::calc::drift::{self, DriftReadings, Limit, Movement, PortPressures};
 use loadhold::calc::quantity::{self, Dimension, UNITS, UnitSystem};
 use loadhold::calc::ratings::{Exposure, Rating};
+use loadhold::calc::valves::{HoldingValve, PilotSource, ValveKind};
 use proptest::prelude::*;
 
 /// Any f64 at all, weighted toward the awkward ones.
@@ -143,12 +146,95 @@ proptest! {
         pos in 0.0..1.0f64,
     ) {
         let holding = cylinder::holding_pressures(&g, load, LoadDirection::Retract);
-        let b = bypass::seal_bypass(&g, pos * g.stroke, load, LoadDirection::Retract, &trapped(1.5e9, 0.0, 0.0));
+        let x = pos * g.stroke;
+        let b = bypass::seal_bypass(&g, x, load, LoadDirection::Retract, &trapped(1.5e9, 0.0, 0.0));
         let p = b.final_pressure.expect("a pushing load intensifies");
-        prop_assert!(p >= holding.cap_pressure);
+        prop_assert!(p.is_finite());
+        // Force balance: F / A_rod above F / A_cap. Only a piston that bottoms first (the stop
+        // then carries part of the load) equalises lower, and never above F / A_rod.
+        prop_assert!(b.bottoms || p >= holding.cap_pressure * (1.0 - 1e-12));
         prop_assert!(p >= holding.rod_pressure);
-        prop_assert!(b.intensification_factor.unwrap() > 1.0);
-        prop_assert!(b.settle_drift.unwrap() >= 0.0);
+        prop_assert!(p <= load / g.rod_area() * (1.0 + 1e-9));
+        prop_assert!(b.bottoms || b.intensification_factor.unwrap() > 1.0);
+        let settle = b.settle_drift.unwrap();
+        prop_assert!(settle >= 0.0);
+        prop_assert!(settle <= x * (1.0 + 1e-12), "settle {settle} beyond the travel left {x}");
+    }
+
+    #[test]
+    fn the_analysis_is_finite_and_never_shows_less_than_the_holding_pressure(
+        g in geometry(),
+        load in 0.0..1e7f64,
+        pos in 0.0..=1.0f64,
+        dir in direction(),
+        dt in 0.0..60.0f64,
+        od_extra in 0.001..0.2f64,
+        air in 0.0..0.05f64,
+    ) {
+        let mut input = CylinderInput::new(g, load, dir);
+        input.position = Some(pos * g.stroke);
+        input.temperature_rise = dt;
+        input.trapped.tube = Some(TubeWall::steel(g.bore * (1.0 + od_extra)));
+        input.entrained_air = air;
+        let r = analysis::analyse(&input, UnitSystem::Metric).expect("valid input");
+        let hold = input.load_direction.holding_end();
+        for s in &r.scenarios {
+            prop_assert!(s.cap.is_finite() && s.rod.is_finite(), "{}", s.name);
+        }
+        prop_assert!(r.highest_pressure.is_finite());
+        prop_assert!(r.highest_pressure >= r.holding.at(hold) * (1.0 - 1e-12));
+        prop_assert!(r.heating.piston_motion.is_finite());
+        if let Some(settle) = r.seal_bypass.settle_drift {
+            prop_assert!(settle <= r.seal_bypass.travel_left * (1.0 + 1e-12));
+        }
+        // Air only adds room: the settle with 1 % air is at least the oil-only settle.
+        if let (Some(oil), Some(air)) = (r.seal_bypass.settle_drift_oil_only, r.seal_bypass.settle_drift_one_percent_air) {
+            prop_assert!(air >= oil * (1.0 - 1e-9));
+        }
+    }
+
+    #[test]
+    fn a_free_piston_raises_the_rod_end_at_least_k_alpha_dt(
+        g in geometry(),
+        load in 0.0..1e7f64,
+        pos in 0.001..0.999f64,
+        dir in direction(),
+        dt in 0.1..60.0f64,
+        b in 0.5e9..2.5e9f64,
+    ) {
+        // Oil only, rigid walls, both ends blocked (REFERENCES.md "Added 2026-12-02": the rod
+        // end rises by K alpha dT times 1 + A_rod/(A_cap (L-x)/x + A_ann) >= 1).
+        let mut input = CylinderInput::new(g, load, dir);
+        input.position = Some(pos * g.stroke);
+        input.temperature_rise = dt;
+        input.trapped.bulk_modulus = b;
+        let h = analysis::analyse(&input, UnitSystem::Metric).expect("valid input").heating;
+        let k_alpha_dt = b * input.oil_expansion * dt;
+        prop_assert!(h.rod_rise >= k_alpha_dt * (1.0 - 1e-9), "{} < {}", h.rod_rise, k_alpha_dt);
+        prop_assert!(h.cap_rise <= k_alpha_dt * (1.0 + 1e-9));
+        prop_assert!(h.cap_rise >= 0.0);
+    }
+
+    #[test]
+    fn bad_valve_and_air_inputs_are_refused_naming_the_field(
+        bad in prop_oneof![Just(f64::NAN), Just(f64::INFINITY), Just(-1.0), Just(0.0), Just(1e15)],
+        which in 0..3usize,
+    ) {
+        let g = Cylinder::new(0.1, 0.07, 1.0).unwrap();
+        let mut input = CylinderInput::new(g, 1e4, LoadDirection::Retract);
+        let field = match which {
+            0 => { input.entrained_air = if bad == 0.0 { 0.9 } else { bad }; "entrained_air" }
+            1 => {
+                input.valves.holding = Some(HoldingValve { kind: ValveKind::Counterbalance, setting: Some(bad), pilot_ratio: None, pilot: PilotSource::OtherPort });
+                "holding_valve_setting"
+            }
+            _ => {
+                input.valves.holding = Some(HoldingValve { kind: ValveKind::PilotCheck, setting: None, pilot_ratio: Some(bad), pilot: PilotSource::External });
+                "holding_valve_pilot_ratio"
+            }
+        };
+        let err = analysis::analyse(&input, UnitSystem::Metric).expect_err("refused");
+        prop_assert_eq!(err.field, field);
     }
 
     #[test]
@@ -163,9 +249,12 @@ proptest! {
     ) {
         let x = pos * g.stroke;
         let settle = |t: Trapped| bypass::seal_bypass(&g, x, load, LoadDirection::Retract, &t).settle_drift.unwrap();
-        prop_assert!(settle(trapped(b1, v1 + extra, 0.0)) > settle(trapped(b1, v1, 0.0)));
-        prop_assert!(settle(trapped(b1, 0.0, v1 + extra)) > settle(trapped(b1, 0.0, v1)));
-        prop_assert!(settle(trapped(b1 + b_extra, v1, v1)) < settle(trapped(b1, v1, v1)));
+        // Never beyond the travel left, so a piston that bottoms settles by that travel for
+        // either volume: the growth is strict only while it stops short of the stop.
+        let more = |a: f64, b: f64| a > b || (a == b && b >= x * (1.0 - 1e-12));
+        prop_assert!(more(settle(trapped(b1, v1 + extra, 0.0)), settle(trapped(b1, v1, 0.0))));
+        prop_assert!(more(settle(trapped(b1, 0.0, v1 + extra)), settle(trapped(b1, 0.0, v1))));
+        prop_assert!(more(settle(trapped(b1, v1, v1)), settle(trapped(b1 + b_extra, v1, v1))));
     }
 
     #[test]

@@ -30,6 +30,13 @@ pub const CYLINDER: &[&str] = &[
     "buckling_safety_factor",
     "ratings",
     "units",
+    "holding_valve",
+    "holding_valve_setting",
+    "holding_valve_pilot_ratio",
+    "holding_valve_pilot",
+    "cap_port_centre",
+    "rod_port_centre",
+    "entrained_air",
 ];
 
 /// The readings of a position-drift test.
@@ -125,6 +132,12 @@ pub fn field(name: &str) -> S {
             &["distance", "per"],
         )),
         "pressurised_end" => words(&["cap", "rod"]),
+        "holding_valve" => nullable(words(&["none", "counterbalance", "pilot_check"])),
+        "holding_valve_setting" => opt_quantity_in(D::Pressure),
+        "holding_valve_pilot_ratio" => nullable(number()),
+        "holding_valve_pilot" => nullable(words(&["other_port", "external"])),
+        "cap_port_centre" | "rod_port_centre" => nullable(words(&["blocked", "open_to_tank"])),
+        "entrained_air" => nullable(number_range(0.0, 0.5)),
         _ => any(),
     }
 }

@@ -50,11 +50,24 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                         "seal_bypass",
                         object(
                             vec![
-                                ("outcome", words(&["intensifies", "runs_away"])),
+                                (
+                                    "outcome",
+                                    words(&[
+                                        "intensifies",
+                                        "runs_away",
+                                        "rests_on_stop",
+                                        "sinks",
+                                        "creeps",
+                                    ]),
+                                ),
                                 ("final_pressure", opt_quantity()),
                                 ("intensification_factor", nullable(number())),
                                 ("settle_drift", opt_quantity()),
                                 ("explanation", string()),
+                                ("travel_left", quantity()),
+                                ("bottoms", boolean()),
+                                ("settle_drift_oil_only", opt_quantity()),
+                                ("settle_drift_one_percent_air", opt_quantity()),
                             ],
                             &[
                                 "outcome",
@@ -104,20 +117,67 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ("load_pressure", quantity()),
                                 ("pilot_ratio", nullable(number())),
                                 ("pilot_opening_pressure", opt_quantity()),
+                                ("pilot_source", words(&["other_port", "external"])),
+                                ("setting_used", quantity()),
+                                ("setting_recorded", boolean()),
                             ],
                             &["setting", "load_pressure"],
                         ),
                     ),
                     (
+                        "seal_bypass_warming",
+                        nullable(object(
+                            with(
+                                qs(&["temperature_rise", "pressure", "piston_motion"]),
+                                vec![("reaches_stop", boolean())],
+                            ),
+                            &["pressure"],
+                        )),
+                    ),
+                    (
+                        "holding_valve",
+                        nullable(object(
+                            vec![
+                                ("kind", words(&["counterbalance", "pilot_check"])),
+                                ("setting", opt_quantity()),
+                                ("pilot_ratio", nullable(number())),
+                                ("pilot_source", words(&["other_port", "external"])),
+                                ("pilot_opening_pressure", opt_quantity()),
+                                ("relieves", boolean()),
+                            ],
+                            &["kind"],
+                        )),
+                    ),
+                    (
+                        "valve_centre",
+                        object(
+                            vec![
+                                ("cap", words(&["blocked", "open_to_tank", "not_recorded"])),
+                                ("rod", words(&["blocked", "open_to_tank", "not_recorded"])),
+                            ],
+                            &["cap", "rod"],
+                        ),
+                    ),
+                    ("entrained_air", number()),
+                    (
                         "trapped_oil_heating",
                         object(
-                            qs(&[
-                                "temperature_rise",
-                                "cap_rise",
-                                "rod_rise",
-                                "cap_pressure",
-                                "rod_pressure",
-                            ]),
+                            with(
+                                qs(&[
+                                    "temperature_rise",
+                                    "cap_rise",
+                                    "rod_rise",
+                                    "cap_pressure",
+                                    "rod_pressure",
+                                    "piston_motion",
+                                    "held_oil_rise",
+                                ]),
+                                vec![
+                                    ("model", words(&["free_piston"])),
+                                    ("bottoms", boolean()),
+                                    ("relieves", boolean()),
+                                ],
+                            ),
                             &["temperature_rise", "cap_pressure", "rod_pressure"],
                         ),
                     ),
@@ -199,8 +259,20 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                         "scaled_drift",
                         "scaled_leak_drift",
                         "scaled_per",
+                        "thermal_cap_change",
+                        "thermal_rod_change",
                     ]),
                     vec![
+                        (
+                            "other_end",
+                            object(
+                                vec![
+                                    ("state", words(&["blocked", "open_to_tank"])),
+                                    ("basis", words(&["recorded", "readings", "assumed"])),
+                                ],
+                                &["state", "basis"],
+                            ),
+                        ),
                         ("calc_version", string()),
                         ("units", words(&["us", "metric"])),
                         (

@@ -16,6 +16,9 @@ pub const DRIFT_CALC: &[&str] = &[
     "bulk_modulus",
     "cap_line_volume",
     "rod_line_volume",
+    "cap_port_centre",
+    "rod_port_centre",
+    "entrained_air",
     "units",
 ];
 
@@ -27,6 +30,7 @@ pub const DECAY_CALC: &[&str] = &[
     "bulk_modulus",
     "cap_line_volume",
     "rod_line_volume",
+    "entrained_air",
     "units",
 ];
 

@@ -1,14 +1,15 @@
 //! The whole cylinder analysis: every figure the calculator and the registry's safety panel
 //! show, from one [`CylinderInput`].
 
+use super::buckling::BucklingReport;
 use super::bypass::{self, Outcome, SealBypass, TubeWall};
 use super::circuit::{self, Counterbalance, Forces, Speeds};
-use super::cylinder::{self, End, Holding, LoadDirection};
+use super::cylinder::{self, End, Holding};
 use super::error::CalcError;
 use super::quantity::UnitSystem;
 use super::ratings::{self, Check, Scenario, Status};
-use super::strength::{self, Buckling, TubeCheck};
-use super::{cautions, hazard_words};
+use super::strength::{self, TubeCheck};
+use super::{cautions, hazard_words, limits, worst_load};
 
 pub use super::cylinder_input::{CylinderInput, RodBuckling};
 pub use super::hazard_words::{component_words, scenario_words};
@@ -66,22 +67,28 @@ pub struct CylinderReport {
     pub scenarios: Vec<Scenario>,
     pub checks: Vec<Check>,
     pub tube: Option<TubeCheck>,
-    pub buckling: Option<Buckling>,
+    pub buckling: Option<BucklingReport>,
     /// Highest pressure any scenario puts in the cylinder, Pa.
     pub highest_pressure: f64,
     pub hazards: Vec<String>,
+    /// What could not be checked, in words (an end with no rating).
+    pub notes: Vec<String>,
     pub cautions: Vec<&'static str>,
 }
 
 /// Runs every cylinder calculation: areas, holding pressures, piston seal bypass, rod-side
 /// intensification (with a supply pressure), speeds (with a flow), counterbalance setting,
-/// trapped-oil heating, the ratings check over all scenarios, the tube's Lamé hoop stress
-/// (with outside diameter and yield) and Euler buckling of the rod.
+/// trapped-oil heating, the ratings check over all scenarios, each scenario against the relief
+/// setting (`supply_pressure`, [`limits`]), the tube's Tresca equivalent stress beside its Lamé
+/// hoop stress (with outside diameter and yield) and rod buckling ([`super::buckling::check`]:
+/// Euler, Johnson range, design factors).
 ///
-/// Buckling is checked for the held load when it pushes the rod in, and for the stall force
-/// `p_supply A_cap` when a supply pressure is given, whichever is larger. Without a free length
-/// it takes twice the stroke: a single-stage cylinder is longer closed than its stroke, so its
-/// pin-to-pin length at full extension is at least that (enter the real length where known).
+/// Worst load, stated: every scenario is worked out at both ends of the load range
+/// `[min_load, load]` and each end keeps its higher pressure with the load that gave it
+/// ([`worst_load`]); the checks, the highest pressure, the tube and the hazards use those.
+/// The other figures (holding, bypass, heating, counterbalance, buckling) are at `load`, the
+/// heaviest, which is where they are highest; `rod_side_intensification` is the scenario's
+/// rod-end figure, the highest over the range.
 /// `units` chooses the units written into the hazard texts.
 pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderReport, CalcError> {
     input.validate()?;
@@ -113,31 +120,36 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         rod_pressure: holding.rod_pressure + rod_rise,
     };
 
-    let mut scenarios = vec![Scenario {
-        name: NORMAL_HOLDING,
-        cap: holding.cap_pressure,
-        rod: holding.rod_pressure,
-    }];
+    let load = input.load;
+    let mut scenarios = vec![Scenario::at(
+        NORMAL_HOLDING,
+        holding.cap_pressure,
+        holding.rod_pressure,
+        load,
+    )];
     if let Some(p) = bypass.final_pressure {
-        scenarios.push(Scenario {
-            name: SEAL_BYPASS,
-            cap: p,
-            rod: p,
-        });
+        scenarios.push(Scenario::at(SEAL_BYPASS, p, p, load));
     }
     if let (Some(p_rod), Some(supply)) = (rod_side, input.supply_pressure) {
-        scenarios.push(Scenario {
-            name: ROD_SIDE_INTENSIFICATION,
-            cap: supply,
-            rod: p_rod,
-        });
+        scenarios.push(Scenario::at(ROD_SIDE_INTENSIFICATION, supply, p_rod, load));
     }
-    scenarios.push(Scenario {
-        name: TRAPPED_OIL_HEATING,
-        cap: heating.cap_pressure,
-        rod: heating.rod_pressure,
-    });
-    let checks = ratings::check_ratings(&input.ratings, &scenarios);
+    scenarios.push(Scenario::at(
+        TRAPPED_OIL_HEATING,
+        heating.cap_pressure,
+        heating.rod_pressure,
+        load,
+    ));
+    // Worst load, stated: the same scenarios at the lightest load of the range; each end
+    // keeps its higher figure and the load that gave it (worst_load.rs).
+    let scenarios = match worst_load::lightest(input) {
+        Some(light) => worst_load::worst_of(scenarios, &analyse(&light, units)?.scenarios),
+        None => scenarios,
+    };
+    let rod_side = worst_load::find(&scenarios, ROD_SIDE_INTENSIFICATION)
+        .map(|s| s.rod)
+        .or(rod_side);
+    let mut checks = ratings::check_ratings(&input.ratings, &scenarios);
+    checks.extend(limits::relief_checks(input.supply_pressure, &scenarios));
     let highest = scenarios
         .iter()
         .map(|s| s.cap.max(s.rod))
@@ -158,8 +170,8 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         )),
         _ => None,
     };
-    let buckling = buckling(input);
-    let hazards = hazard_words::cylinder_hazards(
+    let buckling = super::buckling::check(input);
+    let mut hazards = hazard_words::cylinder_hazards(
         input,
         &holding,
         &bypass,
@@ -168,9 +180,12 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         buckling.as_ref(),
         units,
     );
+    hazards.extend(limits::relief_hazards(&checks, units));
+    let notes = limits::unchecked_notes(&input.ratings, input.supply_pressure, &scenarios, units);
     let over = checks.iter().any(|k| k.status != Status::Ok)
         || tube.is_some_and(|t| t.status != Status::Ok);
     let runaway = bypass.outcome == Outcome::RunsAway;
+    let cautions = limits::with_relief_caution(cautions::for_result(over, runaway), &checks);
 
     Ok(CylinderReport {
         position,
@@ -197,32 +212,7 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         buckling,
         highest_pressure: highest,
         hazards,
-        cautions: cautions::for_result(over, runaway),
+        notes,
+        cautions,
     })
-}
-
-fn buckling(input: &CylinderInput) -> Option<Buckling> {
-    if !input.buckling.checked {
-        return None;
-    }
-    let c = &input.cylinder;
-    let held = match input.load_direction {
-        LoadDirection::Retract => input.load,
-        LoadDirection::Extend => 0.0,
-    };
-    let stall = input.supply_pressure.map_or(0.0, |p| p * c.cap_area());
-    let load = held.max(stall);
-    if load <= 0.0 {
-        return None;
-    }
-    let b = &input.buckling;
-    let length = b.length.unwrap_or(2.0 * c.stroke);
-    Some(strength::buckling_check(
-        c.rod,
-        length,
-        b.youngs,
-        b.end_condition,
-        load,
-        b.safety_factor,
-    ))
 }

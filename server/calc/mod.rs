@@ -7,6 +7,7 @@
 pub mod quantity;
 
 pub mod analysis;
+pub mod buckling;
 pub mod bypass;
 pub mod cautions;
 pub mod circuit;
@@ -20,11 +21,13 @@ pub mod error;
 pub mod fluid;
 pub mod hazard_words;
 pub mod installed;
+pub mod limits;
 pub mod ratings;
 pub mod strength;
 pub mod trend;
 pub mod words;
+pub mod worst_load;
 
 /// Version of the calculations, stored with every analysed record so that a result can be
 /// traced to the formulas that made it. Bump on any change that alters a figure.
-pub const CALC_VERSION: &str = "calc-1.0.0";
+pub const CALC_VERSION: &str = "calc-1.1.0";

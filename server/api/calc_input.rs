@@ -25,6 +25,7 @@ pub const CYLINDER_FIELDS: &[&str] = &[
     "stroke",
     "position",
     "load",
+    "min_load",
     "load_direction",
     "bulk_modulus",
     "oil_expansion",
@@ -37,11 +38,16 @@ pub const CYLINDER_FIELDS: &[&str] = &[
     "tube_outside_diameter",
     "tube_yield",
     "tube_safety_factor",
+    "tube_youngs_modulus",
+    "tube_poisson_ratio",
     "temperature_rise",
     "pilot_ratio",
     "end_condition",
     "buckling_length",
     "buckling_safety_factor",
+    "rod_youngs_modulus",
+    "rod_poisson_ratio",
+    "rod_yield",
     "ratings",
     "units",
     // Valves and air (api::calc_valves).
@@ -108,6 +114,7 @@ pub fn parse_cylinder_request(f: &Fields) -> Result<CylinderInput, AppError> {
         _ => LoadDirection::Retract,
     };
     let mut input = CylinderInput::new(cylinder, load, direction);
+    input.min_load = f.opt_quantity("min_load", D::Force)?;
     input.position = f.opt_quantity("position", D::Length)?;
     if let Some(b) = f.opt_quantity("bulk_modulus", D::Pressure)? {
         input.trapped.bulk_modulus = b;
@@ -132,6 +139,25 @@ pub fn parse_cylinder_request(f: &Fields) -> Result<CylinderInput, AppError> {
     input.trapped.tube = f
         .opt_quantity("tube_outside_diameter", D::Length)?
         .map(TubeWall::steel);
+    let tube_youngs = f.opt_quantity("tube_youngs_modulus", D::Pressure)?;
+    let tube_poisson = f.opt_number("tube_poisson_ratio")?;
+    if let Some(tube) = input.trapped.tube.as_mut() {
+        tube.youngs = tube_youngs.unwrap_or(tube.youngs);
+        tube.poisson = tube_poisson.unwrap_or(tube.poisson);
+    } else {
+        for (name, given) in [
+            ("tube_youngs_modulus", tube_youngs.is_some()),
+            ("tube_poisson_ratio", tube_poisson.is_some()),
+        ] {
+            if given {
+                return Err(AppError::field(
+                    name,
+                    "requires",
+                    format!("{name} needs the tube_outside_diameter too"),
+                ));
+            }
+        }
+    }
     input.tube_yield = f.opt_quantity("tube_yield", D::Pressure)?;
     if input.tube_yield.is_some() && input.trapped.tube.is_none() {
         return Err(AppError::field(
@@ -157,7 +183,13 @@ pub fn parse_cylinder_request(f: &Fields) -> Result<CylinderInput, AppError> {
         safety_factor: f
             .opt_number("buckling_safety_factor")?
             .unwrap_or(input.buckling.safety_factor),
-        youngs: input.buckling.youngs,
+        youngs: f
+            .opt_quantity("rod_youngs_modulus", D::Pressure)?
+            .unwrap_or(input.buckling.youngs),
+        poisson: f
+            .opt_number("rod_poisson_ratio")?
+            .unwrap_or(input.buckling.poisson),
+        yield_strength: f.opt_quantity("rod_yield", D::Pressure)?,
     };
     input.ratings = parse_ratings(f)?;
     input.valves = crate::api::calc_valves::parse_valves(f)?;
@@ -294,10 +326,10 @@ pub fn parse_drift_readings(f: &Fields) -> Result<DriftReadings, AppError> {
         oil_temperature_start: f.quantity("oil_temperature_start", D::Temperature)?,
         oil_temperature_end: f.quantity("oil_temperature_end", D::Temperature)?,
         pressures: PortPressures {
-            cap_start: f.opt_quantity("cap_pressure_start", D::Pressure)?,
-            cap_end: f.opt_quantity("cap_pressure_end", D::Pressure)?,
-            rod_start: f.opt_quantity("rod_pressure_start", D::Pressure)?,
-            rod_end: f.opt_quantity("rod_pressure_end", D::Pressure)?,
+            cap_start: f.opt_gauge_pressure("cap_pressure_start")?,
+            cap_end: f.opt_gauge_pressure("cap_pressure_end")?,
+            rod_start: f.opt_gauge_pressure("rod_pressure_start")?,
+            rod_end: f.opt_gauge_pressure("rod_pressure_end")?,
         },
         limit: parse_limit(f)?,
     })
@@ -324,12 +356,12 @@ pub fn parse_decay_readings(f: &Fields) -> Result<DecayReadings, AppError> {
     Ok(DecayReadings {
         pressurised_end: end,
         duration: f.quantity("duration", D::Time)?,
-        pressure_start: f.quantity("pressure_start", D::Pressure)?,
-        pressure_end: f.quantity("pressure_end", D::Pressure)?,
+        pressure_start: f.gauge_pressure("pressure_start")?,
+        pressure_end: f.gauge_pressure("pressure_end")?,
         oil_temperature_start: f.quantity("oil_temperature_start", D::Temperature)?,
         oil_temperature_end: f.quantity("oil_temperature_end", D::Temperature)?,
-        other_pressure_start: f.opt_quantity("other_pressure_start", D::Pressure)?,
-        other_pressure_end: f.opt_quantity("other_pressure_end", D::Pressure)?,
+        other_pressure_start: f.opt_gauge_pressure("other_pressure_start")?,
+        other_pressure_end: f.opt_gauge_pressure("other_pressure_end")?,
         limit,
     })
 }

@@ -4,8 +4,9 @@
 //! "unit"}` in the request's unit system (DESIGN.md "API conventions").
 
 use crate::calc::CALC_VERSION;
-use crate::calc::analysis::{CylinderInput, CylinderReport};
+use crate::calc::analysis::{CylinderInput, CylinderReport, ROD_SIDE_INTENSIFICATION};
 use crate::calc::quantity::{self, Dimension as D, Shown, UnitSystem};
+use crate::calc::{buckling, worst_load};
 use serde::Serialize;
 
 #[derive(Serialize)]
@@ -13,6 +14,7 @@ pub struct CylinderAnswer<'a> {
     calc_version: &'static str,
     units: &'static str,
     load_direction: &'static str,
+    load_range: LoadRange,
     position: Shown,
     areas: Areas,
     volumes: Pair,
@@ -30,9 +32,28 @@ pub struct CylinderAnswer<'a> {
     tube: Option<Tube>,
     buckling: Option<Buckling>,
     highest_pressure: Shown,
+    scenarios: Vec<ScenarioOut>,
     checks: Vec<Check<'a>>,
     hazards: &'a [String],
+    notes: &'a [String],
     cautions: &'a [&'static str],
+}
+
+/// The load range the scenarios were judged over, N.
+#[derive(Serialize)]
+struct LoadRange {
+    min_load: Shown,
+    load: Shown,
+}
+
+/// A scenario's pressure at each end, at the load in the range that makes it highest.
+#[derive(Serialize)]
+struct ScenarioOut {
+    name: &'static str,
+    cap_pressure: Shown,
+    rod_pressure: Shown,
+    cap_load: Shown,
+    rod_load: Shown,
 }
 
 #[derive(Serialize)]
@@ -73,6 +94,8 @@ struct SealBypass {
 struct RodSide {
     supply_pressure: Shown,
     rod_pressure: Shown,
+    /// The load behind `rod_pressure` (the lightest of the range for a pushing load).
+    load: Shown,
 }
 
 #[derive(Serialize)]
@@ -145,6 +168,9 @@ struct ValveCentre {
 struct Tube {
     pressure: Shown,
     hoop_stress: Shown,
+    equivalent_stress: Shown,
+    criterion: &'static str,
+    equivalent_utilisation: f64,
     yield_strength: Shown,
     safety_factor: f64,
     allowable_stress: Shown,
@@ -161,17 +187,44 @@ struct Buckling {
     safety_factor: f64,
     allowable_load: Shown,
     load: Shown,
+    /// The strictest of Euler, Johnson and the design factor.
     status: &'static str,
+    euler_status: &'static str,
+    length_assumed: bool,
+    length_basis: &'static str,
+    youngs_modulus: Shown,
+    rod_yield_strength: Shown,
+    rod_yield_assumed: bool,
+    inelastic_method: &'static str,
+    slenderness: f64,
+    transition_slenderness: f64,
+    theoretical: BucklingFigure,
+    design: BucklingFigure,
+    governing_allowable_load: Shown,
+}
+
+#[derive(Serialize)]
+struct BucklingFigure {
+    effective_length_factor: f64,
+    slenderness: f64,
+    range: &'static str,
+    method: &'static str,
+    critical_load: Shown,
+    allowable_load: Shown,
 }
 
 #[derive(Serialize)]
 struct Check<'a> {
     component: &'a str,
+    exposure: &'static str,
     scenario: &'static str,
     pressure: Shown,
     rating: Shown,
     status: &'static str,
+    load: Shown,
 }
+
+const LENGTH_ASSUMED: &str = "assumed: twice the stroke (no free length given; enter the pin-to-pin length at full extension)";
 
 /// The answer of `POST /api/v1/calc/cylinder`.
 pub fn cylinder_response<'a>(
@@ -187,6 +240,13 @@ pub fn cylinder_response<'a>(
         calc_version: CALC_VERSION,
         units: units.as_str(),
         load_direction: input.load_direction.as_str(),
+        load_range: {
+            let (light, heavy) = worst_load::range(input);
+            LoadRange {
+                min_load: q(light, D::Force),
+                load: q(heavy, D::Force),
+            }
+        },
         position: q(r.position, D::Length),
         areas: Areas {
             cap: q(r.areas.cap, D::Area),
@@ -218,6 +278,11 @@ pub fn cylinder_response<'a>(
             |(rod, supply)| RodSide {
                 supply_pressure: p(supply),
                 rod_pressure: p(rod),
+                load: q(
+                    worst_load::find(&r.scenarios, ROD_SIDE_INTENSIFICATION)
+                        .map_or(input.load, |s| s.rod_load),
+                    D::Force,
+                ),
             },
         ),
         speeds: r.speeds.map(|s| Speeds {
@@ -281,35 +346,79 @@ pub fn cylinder_response<'a>(
         tube: r.tube.map(|t| Tube {
             pressure: p(t.pressure),
             hoop_stress: p(t.hoop_stress),
+            equivalent_stress: p(t.equivalent_stress),
+            criterion: t.criterion,
+            equivalent_utilisation: t.equivalent_utilisation,
             yield_strength: p(t.yield_strength),
             safety_factor: t.safety_factor,
             allowable_stress: p(t.allowable_stress),
             utilisation: t.utilisation,
             status: t.status.as_str(),
         }),
-        buckling: r.buckling.map(|k| Buckling {
-            end_condition: k.end_condition.as_str(),
-            effective_length_factor: k.end_condition.factor(),
-            length: q(k.length, D::Length),
-            critical_load: q(k.critical_load, D::Force),
-            safety_factor: k.safety_factor,
-            allowable_load: q(k.allowable_load, D::Force),
-            load: q(k.load, D::Force),
-            status: k.status.as_str(),
+        buckling: r.buckling.map(|b| {
+            let k = &b.euler;
+            let figure = |f: &buckling::Figure| BucklingFigure {
+                effective_length_factor: f.effective_length_factor,
+                slenderness: f.slenderness,
+                range: f.range.as_str(),
+                method: f.range.method(),
+                critical_load: q(f.critical_load, D::Force),
+                allowable_load: q(f.allowable_load, D::Force),
+            };
+            Buckling {
+                end_condition: k.end_condition.as_str(),
+                effective_length_factor: k.end_condition.factor(),
+                length: q(k.length, D::Length),
+                critical_load: q(k.critical_load, D::Force),
+                safety_factor: k.safety_factor,
+                allowable_load: q(k.allowable_load, D::Force),
+                load: q(k.load, D::Force),
+                status: b.status.as_str(),
+                euler_status: k.status.as_str(),
+                length_assumed: b.length_assumed,
+                length_basis: if b.length_assumed {
+                    LENGTH_ASSUMED
+                } else {
+                    "given"
+                },
+                youngs_modulus: p(b.youngs),
+                rod_yield_strength: p(b.yield_strength),
+                rod_yield_assumed: b.yield_assumed,
+                inelastic_method: "johnson",
+                slenderness: b.theoretical.slenderness,
+                transition_slenderness: b.transition_slenderness,
+                theoretical: figure(&b.theoretical),
+                design: figure(&b.design),
+                governing_allowable_load: q(b.governing_allowable_load, D::Force),
+            }
         }),
         highest_pressure: p(r.highest_pressure),
+        scenarios: r
+            .scenarios
+            .iter()
+            .map(|s| ScenarioOut {
+                name: s.name,
+                cap_pressure: p(s.cap),
+                rod_pressure: p(s.rod),
+                cap_load: q(s.cap_load, D::Force),
+                rod_load: q(s.rod_load, D::Force),
+            })
+            .collect(),
         checks: r
             .checks
             .iter()
             .map(|c| Check {
                 component: &c.component,
+                exposure: c.exposure.as_str(),
                 scenario: c.scenario,
                 pressure: p(c.pressure),
                 rating: p(c.rating),
                 status: c.status.as_str(),
+                load: q(c.load, D::Force),
             })
             .collect(),
         hazards: &r.hazards,
+        notes: &r.notes,
         cautions: &r.cautions,
     }
 }

@@ -18,11 +18,14 @@ pub const FIELDS: &[&str] = &[
     "stroke",
     "load_direction",
     "max_load",
+    "min_load",
     "holding_pressure",
     "rated_pressure",
     "tube_outside_diameter",
     "tube_yield",
     "end_condition",
+    "buckling_length",
+    "rod_yield",
     "serial",
     "notes",
     "drift_test_interval_days",
@@ -49,11 +52,14 @@ pub struct Draft {
     pub stroke_m: Option<f64>,
     pub load_direction: Option<String>,
     pub max_load_n: Option<f64>,
+    pub min_load_n: Option<f64>,
     pub holding_pressure_pa: Option<f64>,
     pub rated_pressure_pa: Option<f64>,
     pub tube_outside_diameter_m: Option<f64>,
     pub tube_yield_pa: Option<f64>,
     pub end_condition: Option<String>,
+    pub buckling_length_m: Option<f64>,
+    pub rod_yield_pa: Option<f64>,
     pub serial: Option<String>,
     pub notes: Option<String>,
     pub drift_test_interval_days: Option<i64>,
@@ -69,11 +75,14 @@ impl From<CylinderFields> for Draft {
             stroke_m: Some(c.stroke_m),
             load_direction: Some(c.load_direction),
             max_load_n: c.max_load_n,
+            min_load_n: c.min_load_n,
             holding_pressure_pa: c.holding_pressure_pa,
             rated_pressure_pa: c.rated_pressure_pa,
             tube_outside_diameter_m: c.tube_outside_diameter_m,
             tube_yield_pa: c.tube_yield_pa,
             end_condition: c.end_condition,
+            buckling_length_m: c.buckling_length_m,
+            rod_yield_pa: c.rod_yield_pa,
             serial: c.serial,
             notes: c.notes,
             drift_test_interval_days: c.drift_test_interval_days,
@@ -136,6 +145,11 @@ pub fn read(
     {
         c.max_load_n = v;
     }
+    if touched(map, "min_load")
+        && let Some(v) = p.take(f.opt_quantity("min_load", Dimension::Force))
+    {
+        c.min_load_n = v;
+    }
     for (name, dimension, slot) in [
         (
             "holding_pressure",
@@ -153,6 +167,12 @@ pub fn read(
             &mut c.tube_outside_diameter_m,
         ),
         ("tube_yield", Dimension::Pressure, &mut c.tube_yield_pa),
+        (
+            "buckling_length",
+            Dimension::Length,
+            &mut c.buckling_length_m,
+        ),
+        ("rod_yield", Dimension::Pressure, &mut c.rod_yield_pa),
     ] {
         if touched(map, name)
             && let Some(v) = p.take(positive(&f, name, dimension))
@@ -244,6 +264,33 @@ fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
     {
         p.push(AppError::field(e.field, "out_of_range", e.message));
     }
+    if let Some(light) = c.min_load_n
+        && light > c.max_load_n.unwrap_or(f64::INFINITY)
+    {
+        p.push(AppError::field(
+            "min_load",
+            "min_load_above_max_load",
+            "the lowest load held must not be above the highest load held (max_load)",
+        ));
+    }
+    if let Some(length) = c.buckling_length_m
+        && length > MAX_SIZE
+    {
+        p.push(AppError::field(
+            "buckling_length",
+            "out_of_range",
+            "the free length is longer than any cylinder; check the unit",
+        ));
+    }
+    if let Some(y) = c.rod_yield_pa
+        && y < 1e6
+    {
+        p.push(AppError::field(
+            "rod_yield",
+            "out_of_range",
+            "the rod yield strength must be at least 1 MPa; check the unit",
+        ));
+    }
     if let (Some(bore), Some(outside)) = (c.bore_m, c.tube_outside_diameter_m)
         && outside <= bore
     {
@@ -261,11 +308,14 @@ fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
         stroke_m: c.stroke_m?,
         load_direction: c.load_direction?,
         max_load_n: c.max_load_n,
+        min_load_n: c.min_load_n,
         holding_pressure_pa: c.holding_pressure_pa,
         rated_pressure_pa: c.rated_pressure_pa,
         tube_outside_diameter_m: c.tube_outside_diameter_m,
         tube_yield_pa: c.tube_yield_pa,
         end_condition: c.end_condition,
+        buckling_length_m: c.buckling_length_m,
+        rod_yield_pa: c.rod_yield_pa,
         serial: c.serial,
         notes: c.notes,
         drift_test_interval_days: c.drift_test_interval_days,

@@ -56,11 +56,12 @@ fn check_readings(f: &Fields, p: &mut Problems) {
     p.take(f.choice("pressurised_end", &["cap", "rod"]));
     p.take(f.quantity("duration", D::Time));
     for name in ["pressure_start", "pressure_end"] {
-        p.take(f.quantity(name, D::Pressure));
+        p.take(f.gauge_pressure(name));
     }
-    for name in ["other_pressure_start", "other_pressure_end", "bulk_modulus"] {
-        p.take(f.opt_quantity(name, D::Pressure));
+    for name in ["other_pressure_start", "other_pressure_end"] {
+        p.take(f.opt_gauge_pressure(name));
     }
+    p.take(f.opt_quantity("bulk_modulus", D::Pressure));
     for name in ["oil_temperature_start", "oil_temperature_end"] {
         p.take(f.quantity(name, D::Temperature));
     }

@@ -74,10 +74,10 @@ fn check_readings(f: &Fields, problems: &mut Problems) {
         "cap_pressure_end",
         "rod_pressure_start",
         "rod_pressure_end",
-        "bulk_modulus",
     ] {
-        problems.take(f.opt_quantity(name, D::Pressure));
+        problems.take(f.opt_gauge_pressure(name));
     }
+    problems.take(f.opt_quantity("bulk_modulus", D::Pressure));
     problems.take(f.opt_quantity("load", D::Force));
     problems.take(f.opt_choice("load_direction", &["retract", "extend"]));
     problems.take(f.opt_quantity("oil_expansion", D::Expansion));

@@ -228,6 +228,36 @@ impl<'a> Fields<'a> {
         Ok(Some(si))
     }
 
+    /// A gauge pressure reading, Pa: may be negative (a vacuum, e.g. the cap end of a cylinder
+    /// whose pulling load drains it), down to -1 atm (-101,325 Pa gauge is absolute zero,
+    /// ISO 80000-4 / NIST SP 811 standard atmosphere); below that it is refused naming the field.
+    pub fn opt_gauge_pressure(&self, name: &str) -> Result<Option<f64>, AppError> {
+        let si = self.opt_signed_quantity(name, Dimension::Pressure)?;
+        if let Some(v) = si
+            && v < crate::calc::error::MIN_GAUGE_PRESSURE
+        {
+            return Err(AppError::field(
+                self.path(name),
+                "below_vacuum",
+                "a gauge pressure cannot be below -1 atm (-101325 Pa, -1.01325 bar, -14.696 psi): that is absolute zero",
+            ));
+        }
+        Ok(si)
+    }
+
+    /// A gauge pressure reading that must be given ([`Fields::opt_gauge_pressure`]).
+    pub fn gauge_pressure(&self, name: &str) -> Result<f64, AppError> {
+        self.opt_gauge_pressure(name)?.ok_or_else(|| {
+            self.missing(
+                name,
+                &format!(
+                    "a pressure such as {}",
+                    quantity::example(Dimension::Pressure)
+                ),
+            )
+        })
+    }
+
     pub fn signed_quantity(&self, name: &str, dimension: Dimension) -> Result<f64, AppError> {
         self.opt_signed_quantity(name, dimension)?.ok_or_else(|| {
             self.missing(

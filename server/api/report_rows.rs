@@ -286,6 +286,7 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "component": p.component,
             "pressure": pressure(p.pressure_pa),
             "rating": pressure(p.rating_pa),
+            "load": shown(Some(p.load_n), Dimension::Force, units),
         })).collect::<Vec<_>>(),
         "hoses": h.hoses.iter().map(hose_age_json).collect::<Vec<_>>(),
         "trends": h.trends.iter().map(|t| json!({
@@ -320,7 +321,12 @@ pub fn hazard_table(h: &Hazards, units: UnitSystem) -> Table {
             cell(x.site_name.as_ref()),
             x.cylinder_id.to_string(),
             cell(x.hose_id),
-            format!("{}: {}", x.component, scenario_words(x.scenario)),
+            format!(
+                "{}: {} (at a load of {})",
+                x.component,
+                scenario_words(x.scenario),
+                show_quantity(x.load_n, Dimension::Force, units)
+            ),
             p(x.pressure_pa),
             p(x.rating_pa),
             String::new(),

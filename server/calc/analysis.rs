@@ -1,16 +1,17 @@
 //! The whole cylinder analysis: every figure the calculator and the registry's safety panel
 //! show, from one [`CylinderInput`].
 
+use super::buckling::BucklingReport;
 use super::bypass::{Outcome, SealBypass, TubeWall};
 use super::circuit::{self, Forces, Speeds};
-use super::cylinder::{self, Holding, LoadDirection};
+use super::cylinder::{self, Holding};
 use super::error::CalcError;
 use super::quantity::UnitSystem;
 use super::ratings::{self, Check, Scenario, Status};
 use super::settle::{self, BypassWarming, Surroundings};
-use super::strength::{self, Buckling, TubeCheck};
+use super::strength::{self, TubeCheck};
 use super::valves::{self, Counterbalance};
-use super::{cautions, hazard_words};
+use super::{cautions, hazard_words, limits, worst_load};
 use super::{heating, valve_words};
 
 pub use super::cylinder_input::{CylinderInput, RodBuckling};
@@ -64,22 +65,28 @@ pub struct CylinderReport {
     pub scenarios: Vec<Scenario>,
     pub checks: Vec<Check>,
     pub tube: Option<TubeCheck>,
-    pub buckling: Option<Buckling>,
+    pub buckling: Option<BucklingReport>,
     /// Highest pressure any scenario puts in the cylinder, Pa.
     pub highest_pressure: f64,
     pub hazards: Vec<String>,
+    /// What could not be checked, in words (an end with no rating).
+    pub notes: Vec<String>,
     pub cautions: Vec<&'static str>,
 }
 
 /// Runs every cylinder calculation: areas, holding pressures, piston seal bypass, rod-side
 /// intensification (with a supply pressure), speeds (with a flow), counterbalance setting,
-/// trapped-oil heating, the ratings check over all scenarios, the tube's Lamé hoop stress
-/// (with outside diameter and yield) and Euler buckling of the rod.
+/// trapped-oil heating, the ratings check over all scenarios, each scenario against the relief
+/// setting (`supply_pressure`, [`limits`]), the tube's Tresca equivalent stress beside its Lamé
+/// hoop stress (with outside diameter and yield) and rod buckling ([`super::buckling::check`]:
+/// Euler, Johnson range, design factors).
 ///
-/// Buckling is checked for the held load when it pushes the rod in, and for the stall force
-/// `p_supply A_cap` when a supply pressure is given, whichever is larger. Without a free length
-/// it takes twice the stroke: a single-stage cylinder is longer closed than its stroke, so its
-/// pin-to-pin length at full extension is at least that (enter the real length where known).
+/// Worst load, stated: every scenario is worked out at both ends of the load range
+/// `[min_load, load]` and each end keeps its higher pressure with the load that gave it
+/// ([`worst_load`]); the checks, the highest pressure, the tube and the hazards use those.
+/// The other figures (holding, bypass, heating, counterbalance, buckling) are at `load`, the
+/// heaviest, which is where they are highest; `rod_side_intensification` is the scenario's
+/// rod-end figure, the highest over the range.
 /// `units` chooses the units written into the hazard texts.
 pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderReport, CalcError> {
     input.validate()?;
@@ -106,38 +113,39 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         input.temperature_rise,
     );
 
-    let mut scenarios = vec![Scenario {
-        name: NORMAL_HOLDING,
-        cap: holding.cap_pressure,
-        rod: holding.rod_pressure,
-    }];
+    let load = input.load;
+    let mut scenarios = vec![Scenario::at(
+        NORMAL_HOLDING,
+        holding.cap_pressure,
+        holding.rod_pressure,
+        load,
+    )];
     if let Some(p) = bypass.final_pressure {
-        scenarios.push(Scenario {
-            name: SEAL_BYPASS,
-            cap: p,
-            rod: p,
-        });
+        scenarios.push(Scenario::at(SEAL_BYPASS, p, p, load));
     }
     if let (Some(p_rod), Some(supply)) = (rod_side, input.supply_pressure) {
-        scenarios.push(Scenario {
-            name: ROD_SIDE_INTENSIFICATION,
-            cap: supply,
-            rod: p_rod,
-        });
+        scenarios.push(Scenario::at(ROD_SIDE_INTENSIFICATION, supply, p_rod, load));
     }
-    scenarios.push(Scenario {
-        name: TRAPPED_OIL_HEATING,
-        cap: heating.cap_pressure,
-        rod: heating.rod_pressure,
-    });
+    scenarios.push(Scenario::at(
+        TRAPPED_OIL_HEATING,
+        heating.cap_pressure,
+        heating.rod_pressure,
+        load,
+    ));
     if let Some(w) = warming {
-        scenarios.push(Scenario {
-            name: SEAL_BYPASS_WARMING,
-            cap: w.pressure,
-            rod: w.pressure,
-        });
+        scenarios.push(Scenario::at(SEAL_BYPASS_WARMING, w.pressure, w.pressure, load));
     }
-    let checks = ratings::check_ratings(&input.ratings, &scenarios);
+    // Worst load, stated: the same scenarios at the lightest load of the range; each end
+    // keeps its higher figure and the load that gave it (worst_load.rs).
+    let scenarios = match worst_load::lightest(input) {
+        Some(light) => worst_load::worst_of(scenarios, &analyse(&light, units)?.scenarios),
+        None => scenarios,
+    };
+    let rod_side = worst_load::find(&scenarios, ROD_SIDE_INTENSIFICATION)
+        .map(|s| s.rod)
+        .or(rod_side);
+    let mut checks = ratings::check_ratings(&input.ratings, &scenarios);
+    checks.extend(limits::relief_checks(input.supply_pressure, &scenarios));
     let highest = scenarios
         .iter()
         .map(|s| s.cap.max(s.rod))
@@ -158,7 +166,7 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         )),
         _ => None,
     };
-    let buckling = buckling(input);
+    let buckling = super::buckling::check(input);
     let mut hazards = hazard_words::cylinder_hazards(
         input,
         &holding,
@@ -169,13 +177,15 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         units,
     );
     hazards.extend(valve_words::hazards(input, &bypass, &heating, units));
+    hazards.extend(limits::relief_hazards(&checks, units));
+    let notes = limits::unchecked_notes(&input.ratings, input.supply_pressure, &scenarios, units);
     let over = checks.iter().any(|k| k.status != Status::Ok)
         || tube.is_some_and(|t| t.status != Status::Ok);
     let runaway = matches!(
         bypass.outcome,
         Outcome::RunsAway | Outcome::Sinks | Outcome::Creeps
     );
-    let mut cautions = cautions::for_result(over, runaway);
+    let mut cautions = limits::with_relief_caution(cautions::for_result(over, runaway), &checks);
     cautions.extend(valve_words::cautions(input, &bypass, &heating));
 
     Ok(CylinderReport {
@@ -211,32 +221,7 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         buckling,
         highest_pressure: highest,
         hazards,
+        notes,
         cautions,
     })
-}
-
-fn buckling(input: &CylinderInput) -> Option<Buckling> {
-    if !input.buckling.checked {
-        return None;
-    }
-    let c = &input.cylinder;
-    let held = match input.load_direction {
-        LoadDirection::Retract => input.load,
-        LoadDirection::Extend => 0.0,
-    };
-    let stall = input.supply_pressure.map_or(0.0, |p| p * c.cap_area());
-    let load = held.max(stall);
-    if load <= 0.0 {
-        return None;
-    }
-    let b = &input.buckling;
-    let length = b.length.unwrap_or(2.0 * c.stroke);
-    Some(strength::buckling_check(
-        c.rod,
-        length,
-        b.youngs,
-        b.end_condition,
-        load,
-        b.safety_factor,
-    ))
 }

@@ -19,6 +19,9 @@ pub const DEFER: &str = "These figures support judgement and do not replace it. 
 /// Said when a pressure may be above a rating.
 pub const OVER_RATING: &str = "A line, hose or the cylinder may be above its rated pressure. Keep people away from it, add no load, and have the fault repaired before the machine works again.";
 
+/// Said when a blocked end can rise above the machine's relief setting.
+pub const ABOVE_RELIEF: &str = "A blocked end can rise above the machine's relief setting, and the relief valve cannot limit it there. Check that every line, hose and fitting on that end, and the cylinder itself, is rated for that pressure; where a rating is not known, treat the part as not rated for it.";
+
 /// Said when the load can run away.
 pub const RUNAWAY: &str = "This cylinder may not hold its load: keep everyone out from under and beside the load and block it mechanically until the cylinder is repaired.";
 

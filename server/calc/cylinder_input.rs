@@ -21,6 +21,11 @@ pub struct RodBuckling {
     pub safety_factor: f64,
     /// Young's modulus of the rod, Pa.
     pub youngs: f64,
+    /// Poisson's ratio of the rod.
+    pub poisson: f64,
+    /// Yield strength of the rod, Pa, for the Johnson range; `None` takes
+    /// [`super::buckling::DEFAULT_ROD_YIELD`] (said in the answer as assumed).
+    pub yield_strength: Option<f64>,
 }
 
 /// Everything the cylinder analysis takes. SI units; pressures gauge.
@@ -29,8 +34,12 @@ pub struct CylinderInput {
     pub cylinder: Cylinder,
     /// Extension from fully retracted, m; `None` means half the stroke.
     pub position: Option<f64>,
-    /// Held load, N (a magnitude; its direction is `load_direction`).
+    /// Held load, N (a magnitude; its direction is `load_direction`): the heaviest of the range.
     pub load: f64,
+    /// Lightest held load of the range, N; `None` means the range is `load` alone. Every
+    /// scenario is judged at the load in `[min_load, load]` that gives each end its highest
+    /// pressure ([`super::worst_load`]).
+    pub min_load: Option<f64>,
     pub load_direction: LoadDirection,
     /// Oil modulus, lines and tube wall.
     pub trapped: Trapped,
@@ -64,6 +73,7 @@ impl CylinderInput {
             cylinder,
             position: None,
             load,
+            min_load: None,
             load_direction,
             trapped: Trapped {
                 bulk_modulus: fluid::DEFAULT_BULK_MODULUS,
@@ -85,6 +95,8 @@ impl CylinderInput {
                 length: None,
                 safety_factor: strength::DEFAULT_BUCKLING_SAFETY_FACTOR,
                 youngs: fluid::STEEL_YOUNGS_MODULUS,
+                poisson: fluid::STEEL_POISSON_RATIO,
+                yield_strength: None,
             },
             valves: Valves::default(),
             entrained_air: 0.0,
@@ -101,6 +113,14 @@ impl CylinderInput {
         let c = &self.cylinder;
         Cylinder::new(c.bore, c.rod, c.stroke)?;
         cylinder::check_load(self.load)?;
+        if let Some(light) = self.min_load {
+            in_range("min_load", "the lowest load", light, 0.0, self.load).map_err(|_| {
+                CalcError::new(
+                    "min_load",
+                    "the lowest load must lie between 0 and the load (the highest load)",
+                )
+            })?;
+        }
         if let Some(p) = self.position {
             cylinder::check_position(c, "position", p)?;
         }
@@ -135,6 +155,20 @@ impl CylinderInput {
                 tube.outside_diameter,
                 0.0,
                 MAX_LENGTH,
+            )?;
+            in_range(
+                "tube_youngs_modulus",
+                "Young's modulus",
+                tube.youngs,
+                1e9,
+                MAX_PRESSURE,
+            )?;
+            in_range(
+                "tube_poisson_ratio",
+                "Poisson's ratio",
+                tube.poisson,
+                0.0,
+                0.499,
             )?;
             if tube.outside_diameter <= c.bore {
                 return Err(CalcError::new(
@@ -228,6 +262,16 @@ impl CylinderInput {
             0.0,
             0.5,
         )?;
+        in_range(
+            "rod_poisson_ratio",
+            "Poisson's ratio",
+            b.poisson,
+            0.0,
+            0.499,
+        )?;
+        if let Some(y) = b.yield_strength {
+            in_range("rod_yield", "the rod yield strength", y, 1e6, MAX_PRESSURE)?;
+        }
         self.valves.validate(self.load_direction, self.load)?;
         Ok(())
     }

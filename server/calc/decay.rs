@@ -6,7 +6,7 @@ use super::circuit;
 use super::cylinder::End;
 use super::diagnosis::{Diagnosis, pressure_tolerance};
 use super::drift::Verdict;
-use super::error::{CalcError, MAX_PRESSURE, in_range};
+use super::error::{CalcError, MAX_PRESSURE, MIN_GAUGE_PRESSURE, in_range};
 use super::heating;
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::Exposure;
@@ -67,14 +67,14 @@ fn validate(r: &DecayReadings) -> Result<(), CalcError> {
         "pressure_start",
         "the start pressure",
         r.pressure_start,
-        0.0,
+        MIN_GAUGE_PRESSURE,
         MAX_PRESSURE,
     )?;
     in_range(
         "pressure_end",
         "the end pressure",
         r.pressure_end,
-        -1e5,
+        MIN_GAUGE_PRESSURE,
         MAX_PRESSURE,
     )?;
     in_range(
@@ -96,7 +96,7 @@ fn validate(r: &DecayReadings) -> Result<(), CalcError> {
         ("other_pressure_end", r.other_pressure_end),
     ] {
         if let Some(v) = v {
-            in_range(name, "a port pressure", v, -1e5, MAX_PRESSURE)?;
+            in_range(name, "a port pressure", v, MIN_GAUGE_PRESSURE, MAX_PRESSURE)?;
         }
     }
     if let Some(l) = r.limit {

@@ -7,7 +7,7 @@
 use super::analysis::{self, CylinderInput};
 use super::cylinder::{self, End, LoadDirection};
 use super::diagnosis::{self, Diagnosis};
-use super::error::{CalcError, MAX_LENGTH, MAX_PRESSURE, in_range};
+use super::error::{CalcError, MAX_LENGTH, MAX_PRESSURE, MIN_GAUGE_PRESSURE, in_range};
 use super::other_end::{self, OtherEnd};
 use super::quantity::UnitSystem;
 use serde::Serialize;
@@ -167,7 +167,7 @@ pub fn validate(input: &CylinderInput, r: &DriftReadings) -> Result<(), CalcErro
         ("rod_pressure_end", p.rod_end),
     ] {
         if let Some(v) = value {
-            in_range(name, "a port pressure", v, -1e5, MAX_PRESSURE)?;
+            in_range(name, "a port pressure", v, MIN_GAUGE_PRESSURE, MAX_PRESSURE)?;
         }
     }
     if let Some(limit) = r.limit {

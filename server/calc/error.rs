@@ -49,5 +49,10 @@ pub fn in_range(field: &str, what: &str, value: f64, min: f64, max: f64) -> Resu
 pub const MAX_LENGTH: f64 = 100.0;
 /// Upper bound on any pressure or modulus the core accepts, Pa (1000 GPa).
 pub const MAX_PRESSURE: f64 = 1e12;
+
+/// Lowest gauge pressure a reading can have, Pa: -1 standard atmosphere (101,325 Pa exactly,
+/// ISO 80000-4 / NIST SP 811), i.e. absolute zero. A vacuum reading is evidence (a cap end
+/// drained by a pulling load), not an error.
+pub const MIN_GAUGE_PRESSURE: f64 = -101_325.0;
 /// Upper bound on any force the core accepts, N (about 100,000 tonnes-force).
 pub const MAX_FORCE: f64 = 1e9;

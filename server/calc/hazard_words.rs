@@ -5,11 +5,13 @@ use super::analysis::{
     CylinderInput, NORMAL_HOLDING, ROD_SIDE_INTENSIFICATION, SEAL_BYPASS, SEAL_BYPASS_WARMING,
     TRAPPED_OIL_HEATING,
 };
+use super::buckling::BucklingReport;
 use super::bypass::{Outcome, SealBypass};
 use super::cylinder::Holding;
+use super::limits::RELIEF_SETTING;
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::{Check, Status};
-use super::strength::{Buckling, TubeCheck};
+use super::strength::TubeCheck;
 use super::words;
 
 /// The hazards a cylinder report implies, in plain words in `units`: the pressure a piston
@@ -21,7 +23,7 @@ pub fn cylinder_hazards(
     bypass: &SealBypass,
     checks: &[Check],
     tube: Option<&TubeCheck>,
-    buckling: Option<&Buckling>,
+    buckling: Option<&BucklingReport>,
     units: UnitSystem,
 ) -> Vec<String> {
     let p = |si: f64| words::q(si, Dimension::Pressure, units);
@@ -39,37 +41,50 @@ pub fn cylinder_hazards(
         ),
         _ => {}
     }
-    for check in checks.iter().filter(|k| k.status != Status::Ok) {
+    // Relief-setting checks have their own words (limits::relief_hazards).
+    for check in checks
+        .iter()
+        .filter(|k| k.status != Status::Ok && k.component != RELIEF_SETTING)
+    {
         let how = match check.status {
             Status::Exceeds => "above",
             _ => "within 10 % of",
         };
         out.push(format!(
-            "{}: {} puts {} on it, {} its rating of {}.",
+            "{}: {} puts {} on it (at a load of {}), {} its rating of {}.",
             component_words(&check.component),
             scenario_words(check.scenario),
             p(check.pressure),
+            words::q(check.load, Dimension::Force, units),
             how,
             p(check.rating)
         ));
     }
     if let Some(t) = tube.filter(|t| t.status != Status::Ok) {
         out.push(format!(
-            "Tube: hoop stress at the bore reaches {} at {}, against an allowable {} (yield over a factor of {}).",
-            p(t.hoop_stress),
+            "Tube: the equivalent stress at the bore (Tresca) reaches {} at {} (hoop stress {}), against an allowable {} (yield over a factor of {}).",
+            p(t.equivalent_stress),
             p(t.pressure),
+            p(t.hoop_stress),
             p(t.allowable_stress),
             t.safety_factor
         ));
     }
     if let Some(b) = buckling.filter(|b| b.status != Status::Ok) {
+        let d = &b.design;
         out.push(format!(
-            "Rod: the compressive load {} is {} the buckling allowable of {} (Euler, K = {}, factor {}).",
-            words::q(b.load, Dimension::Force, units),
+            "Rod: the compressive load {} is {} the buckling allowable of {} (the lowest of Euler with K = {} at {}, and {} with the design factor K = {} at {}; slenderness {:.0}, factor {}{}).",
+            words::q(b.euler.load, Dimension::Force, units),
             if b.status == Status::Exceeds { "above" } else { "within 10 % of" },
-            words::q(b.allowable_load, Dimension::Force, units),
-            b.end_condition.factor(),
-            b.safety_factor
+            words::q(b.governing_allowable_load, Dimension::Force, units),
+            b.euler.end_condition.factor(),
+            words::q(b.euler.allowable_load, Dimension::Force, units),
+            if d.range == super::buckling::Range::Inelastic { "Johnson" } else { "Euler" },
+            d.effective_length_factor,
+            words::q(d.allowable_load, Dimension::Force, units),
+            d.slenderness,
+            b.euler.safety_factor,
+            if b.length_assumed { "; free length assumed twice the stroke" } else { "" }
         ));
     }
     out
@@ -81,6 +96,7 @@ pub fn component_words(component: &str) -> String {
         "cap_line" => "Cap-end line".into(),
         "rod_line" => "Rod-end line".into(),
         "cylinder" => "Cylinder".into(),
+        RELIEF_SETTING => "Relief setting".into(),
         other => format!("Hose {other}"),
     }
 }

@@ -31,6 +31,8 @@ pub struct Installed {
     pub load_direction: String,
     /// Highest held load, N.
     pub max_load: Option<f64>,
+    /// Lowest held load, N; none recorded counts as 0 N (the load may be taken off).
+    pub min_load: Option<f64>,
     /// Holding pressure, Pa, used when the load is not recorded.
     pub holding_pressure: Option<f64>,
     /// The machine's system relief setting, Pa (the supply pressure for rod-side intensification).
@@ -41,6 +43,10 @@ pub struct Installed {
     pub tube_yield: Option<f64>,
     /// Buckling end condition as stored (`fixed_free`, `pinned_pinned`, ...).
     pub end_condition: Option<String>,
+    /// Rod free length at full extension, m; none: twice the stroke, said as assumed.
+    pub buckling_length: Option<f64>,
+    /// Rod yield strength, Pa; none: the core's default, said as assumed.
+    pub rod_yield: Option<f64>,
 }
 
 /// A rated line fitted to one port of the cylinder.
@@ -90,13 +96,18 @@ impl Installed {
         }
     }
 
-    /// The core's input: geometry, held load, the relief setting as supply pressure, tube wall
+    /// The core's input: geometry, held load range, the relief setting as supply pressure, tube wall
     /// (steel) and yield, rod end condition (no buckling check without one), and the ratings (the cylinder's on both ends; each
     /// rated line on its port's end).
     pub fn input(&self, lines: &[RatedLine]) -> Result<(CylinderInput, LoadSource), CalcError> {
         let geometry = Cylinder::new(self.bore, self.rod, self.stroke)?;
         let (load, source) = self.held_load(&geometry);
         let mut input = CylinderInput::new(geometry, load, self.direction());
+        // The load range: from the recorded lowest load (0 N when none; never above the
+        // held load, which may come from a holding pressure) to the held load.
+        input.min_load = Some(self.min_load.unwrap_or(0.0).min(load));
+        input.buckling.length = self.buckling_length;
+        input.buckling.yield_strength = self.rod_yield;
         input.supply_pressure = self.relief_pressure;
         input.trapped.tube = self.tube_outside_diameter.map(TubeWall::steel);
         input.tube_yield = self.tube_outside_diameter.and(self.tube_yield);

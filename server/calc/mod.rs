@@ -8,6 +8,7 @@ pub mod quantity;
 
 pub mod air;
 pub mod analysis;
+pub mod buckling;
 pub mod bypass;
 pub mod cautions;
 pub mod circuit;
@@ -22,6 +23,7 @@ pub mod fluid;
 pub mod hazard_words;
 pub mod heating;
 pub mod installed;
+pub mod limits;
 pub mod other_end;
 pub mod ratings;
 pub mod settle;
@@ -31,6 +33,7 @@ pub mod valve_words;
 pub mod valves;
 pub mod walls;
 pub mod words;
+pub mod worst_load;
 
 /// Version of the calculations, stored with every analysed record so that a result can be
 /// traced to the formulas that made it. Bump on any change that alters a figure.

@@ -27,6 +27,22 @@ pub fn lame_hoop_at_outside(pressure: f64, inner_radius: f64, outer_radius: f64)
     2.0 * pressure * a2 / (b2 - a2)
 }
 
+/// Tresca equivalent stress at the bore of a thick-walled tube under internal pressure `p`, Pa:
+/// `sigma_theta - sigma_r = p (b² + a²)/(b² - a²) + p = 2 p b² / (b² - a²)`.
+/// At the bore the principal stresses are the hoop `p (b² + a²)/(b² - a²)`, the radial `-p`
+/// and, with closed ends, the axial `p a²/(b² - a²)`, which lies between them, so the largest
+/// difference (Tresca, maximum shear) is hoop minus radial whether the ends are closed or
+/// open. Origin: the Lamé solution with the Tresca criterion (REFERENCES.md "Added
+/// 2026-12-02"). Tresca is the more cautious of the two usual criteria here: von Mises gives
+/// `sqrt(3) p b² / (b² - a²)` with closed ends, 13 % lower.
+pub fn tresca_at_bore(pressure: f64, inner_radius: f64, outer_radius: f64) -> f64 {
+    let (a2, b2) = (inner_radius * inner_radius, outer_radius * outer_radius);
+    2.0 * pressure * b2 / (b2 - a2)
+}
+
+/// The criterion behind the tube's equivalent stress, as the answer names it.
+pub const EQUIVALENT_CRITERION: &str = "tresca";
+
 /// How the tube's ends are held, for its radial growth.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum AxialState {
@@ -64,13 +80,19 @@ pub fn lame_radial_growth(
     }
 }
 
-/// The tube's hoop stress at the highest pressure against its yield strength.
+/// The tube's stresses at the highest pressure against its yield strength.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct TubeCheck {
     /// The pressure checked, Pa.
     pub pressure: f64,
     /// Lamé hoop stress at the bore, Pa.
     pub hoop_stress: f64,
+    /// Equivalent stress at the bore by [`EQUIVALENT_CRITERION`] ([`tresca_at_bore`]), Pa:
+    /// what is checked against the allowable.
+    pub equivalent_stress: f64,
+    pub criterion: &'static str,
+    /// `equivalent stress / allowable`.
+    pub equivalent_utilisation: f64,
     pub yield_strength: f64,
     pub safety_factor: f64,
     /// `yield / safety factor`, Pa.
@@ -81,8 +103,10 @@ pub struct TubeCheck {
 }
 
 /// Checks a tube of bore `bore` and outside diameter `outside_diameter` (m) at `pressure`
-/// (Pa) against `yield_strength / safety_factor`, with [`lame_hoop_at_bore`].
-/// Status as in the ratings check (`low_margin` within 10 % of the allowable).
+/// (Pa): the Tresca equivalent stress at the bore ([`tresca_at_bore`]) against
+/// `yield_strength / safety_factor`; the hoop stress ([`lame_hoop_at_bore`]) and its
+/// utilisation are shown beside it. Status as in the ratings check (`low_margin` within 10 %
+/// of the allowable), from the equivalent stress.
 pub fn tube_check(
     bore: f64,
     outside_diameter: f64,
@@ -91,15 +115,19 @@ pub fn tube_check(
     safety_factor: f64,
 ) -> TubeCheck {
     let hoop = lame_hoop_at_bore(pressure, bore / 2.0, outside_diameter / 2.0);
+    let equivalent = tresca_at_bore(pressure, bore / 2.0, outside_diameter / 2.0);
     let allowable = yield_strength / safety_factor;
     TubeCheck {
         pressure,
         hoop_stress: hoop,
+        equivalent_stress: equivalent,
+        criterion: EQUIVALENT_CRITERION,
+        equivalent_utilisation: equivalent / allowable,
         yield_strength,
         safety_factor,
         allowable_stress: allowable,
         utilisation: hoop / allowable,
-        status: status(hoop, allowable),
+        status: status(equivalent, allowable),
     }
 }
 

@@ -23,11 +23,16 @@ pub struct Cylinder {
     /// `retract` (load pushes the rod in) or `extend` (load pulls it out).
     pub load_direction: String,
     pub max_load_n: Option<f64>,
+    /// Lowest load held, N (none recorded: 0 N).
+    pub min_load_n: Option<f64>,
     pub holding_pressure_pa: Option<f64>,
     pub rated_pressure_pa: Option<f64>,
     pub tube_outside_diameter_m: Option<f64>,
     pub tube_yield_pa: Option<f64>,
     pub end_condition: Option<String>,
+    /// Rod free length at full extension for buckling, m (none: twice the stroke, assumed).
+    pub buckling_length_m: Option<f64>,
+    pub rod_yield_pa: Option<f64>,
     pub serial: Option<String>,
     pub notes: Option<String>,
     pub drift_test_interval_days: Option<i64>,
@@ -47,11 +52,16 @@ pub struct CylinderFields {
     pub stroke_m: f64,
     pub load_direction: String,
     pub max_load_n: Option<f64>,
+    /// Lowest load held, N (none recorded: 0 N).
+    pub min_load_n: Option<f64>,
     pub holding_pressure_pa: Option<f64>,
     pub rated_pressure_pa: Option<f64>,
     pub tube_outside_diameter_m: Option<f64>,
     pub tube_yield_pa: Option<f64>,
     pub end_condition: Option<String>,
+    /// Rod free length at full extension for buckling, m (none: twice the stroke, assumed).
+    pub buckling_length_m: Option<f64>,
+    pub rod_yield_pa: Option<f64>,
     pub serial: Option<String>,
     pub notes: Option<String>,
     pub drift_test_interval_days: Option<i64>,
@@ -67,11 +77,14 @@ impl Cylinder {
             stroke_m: self.stroke_m,
             load_direction: self.load_direction.clone(),
             max_load_n: self.max_load_n,
+            min_load_n: self.min_load_n,
             holding_pressure_pa: self.holding_pressure_pa,
             rated_pressure_pa: self.rated_pressure_pa,
             tube_outside_diameter_m: self.tube_outside_diameter_m,
             tube_yield_pa: self.tube_yield_pa,
             end_condition: self.end_condition.clone(),
+            buckling_length_m: self.buckling_length_m,
+            rod_yield_pa: self.rod_yield_pa,
             serial: self.serial.clone(),
             notes: self.notes.clone(),
             drift_test_interval_days: self.drift_test_interval_days,
@@ -96,7 +109,7 @@ macro_rules! select_cylinder {
             s.units AS site_units, c.function, c.bore_m, c.rod_m, c.stroke_m, c.load_direction,
             c.max_load_n, c.holding_pressure_pa, c.rated_pressure_pa, c.tube_outside_diameter_m,
             c.tube_yield_pa, c.end_condition, c.serial, c.notes, c.drift_test_interval_days,
-            c.created_at, c.updated_at, c.archived_at,
+            c.min_load_n, c.buckling_length_m, c.rod_yield_pa, c.created_at, c.updated_at, c.archived_at,
             (SELECT COUNT(*) FROM hoses h WHERE h.cylinder_id = c.id AND h.archived_at IS NULL)
                 AS hose_count
          FROM cylinders c JOIN machines m ON m.id = c.machine_id
@@ -177,8 +190,8 @@ pub async fn insert(
         "INSERT INTO cylinders (machine_id, function, bore_m, rod_m, stroke_m, load_direction,
             max_load_n, holding_pressure_pa, rated_pressure_pa, tube_outside_diameter_m,
             tube_yield_pa, end_condition, serial, notes, drift_test_interval_days,
-            created_at, updated_at)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+            min_load_n, buckling_length_m, rod_yield_pa, created_at, updated_at)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(f.machine_id)
     .bind(&f.function)
@@ -195,6 +208,9 @@ pub async fn insert(
     .bind(&f.serial)
     .bind(&f.notes)
     .bind(f.drift_test_interval_days)
+    .bind(f.min_load_n)
+    .bind(f.buckling_length_m)
+    .bind(f.rod_yield_pa)
     .bind(at)
     .bind(at)
     .fetch_one(&mut *conn)
@@ -235,7 +251,8 @@ pub async fn update(
         "UPDATE cylinders SET machine_id = ?, function = ?, bore_m = ?, rod_m = ?, stroke_m = ?,
             load_direction = ?, max_load_n = ?, holding_pressure_pa = ?, rated_pressure_pa = ?,
             tube_outside_diameter_m = ?, tube_yield_pa = ?, end_condition = ?, serial = ?,
-            notes = ?, drift_test_interval_days = ?, archived_at = ?, updated_at = ?
+            notes = ?, drift_test_interval_days = ?, min_load_n = ?, buckling_length_m = ?,
+            rod_yield_pa = ?, archived_at = ?, updated_at = ?
          WHERE id = ?",
     )
     .bind(f.machine_id)
@@ -253,6 +270,9 @@ pub async fn update(
     .bind(&f.serial)
     .bind(&f.notes)
     .bind(f.drift_test_interval_days)
+    .bind(f.min_load_n)
+    .bind(f.buckling_length_m)
+    .bind(f.rod_yield_pa)
     .bind(&archived_at)
     .bind(super::now_rfc3339())
     .bind(id)

@@ -117,6 +117,10 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
             p(t.hoop_stress),
         ));
         strength.push(row(
+            "Tube equivalent stress at the bore (Tresca), checked",
+            p(t.equivalent_stress),
+        ));
+        strength.push(row(
             "Allowable (yield over safety factor)",
             format!(
                 "{} ({})",
@@ -125,23 +129,41 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
             ),
         ));
     }
-    if let Some(k) = r.buckling {
+    if let Some(b) = r.buckling {
         let f = |si: f64| words::q(si, D::Force, units);
+        let k = b.euler;
         strength.push(row(
             &format!(
-                "Rod buckling load (Euler, K = {}, length {})",
+                "Rod buckling load (Euler, K = {}, length {}{})",
                 k.end_condition.factor(),
-                len(k.length)
+                len(k.length),
+                if b.length_assumed {
+                    ", assumed twice the stroke"
+                } else {
+                    ""
+                }
             ),
             f(k.critical_load),
         ));
+        for (label, figure) in [("theoretical", b.theoretical), ("design", b.design)] {
+            strength.push(row(
+                &format!(
+                    "With the {label} factor K = {}: slenderness {:.0} ({} range, {})",
+                    figure.effective_length_factor,
+                    figure.slenderness,
+                    figure.range.as_str(),
+                    figure.range.method()
+                ),
+                f(figure.critical_load),
+            ));
+        }
         strength.push(row(
-            "Allowable against the compressive load",
+            "Allowable against the compressive load (the lowest)",
             format!(
                 "{} against {} ({})",
-                f(k.allowable_load),
+                f(b.governing_allowable_load),
                 f(k.load),
-                k.status.as_str().replace('_', " ")
+                b.status.as_str().replace('_', " ")
             ),
         ));
     }

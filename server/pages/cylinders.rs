@@ -56,11 +56,17 @@ pub fn values(c: Option<&CylinderFields>, units: UnitSystem) -> Values {
             "max_load",
             forms::quantity_text(c.max_load_n, Dimension::Force, units),
         ),
+        (
+            "min_load",
+            forms::quantity_text(c.min_load_n, Dimension::Force, units),
+        ),
         ("holding_pressure", pressure(c.holding_pressure_pa)),
         ("rated_pressure", pressure(c.rated_pressure_pa)),
         ("tube_outside_diameter", length(c.tube_outside_diameter_m)),
         ("tube_yield", forms::stress_input(c.tube_yield_pa, units)),
         ("end_condition", c.end_condition.clone().unwrap_or_default()),
+        ("buckling_length", length(c.buckling_length_m)),
+        ("rod_yield", forms::stress_input(c.rod_yield_pa, units)),
         ("serial", c.serial.clone().unwrap_or_default()),
         ("notes", c.notes.clone().unwrap_or_default()),
         (
@@ -103,6 +109,8 @@ fn form(
     )
     .required = true;
     b.quantity("max_load", "Highest load held", Dimension::Force, units);
+    b.quantity("min_load", "Lowest load held", Dimension::Force, units)
+        .hint = "E.g. the empty attachment's weight; left empty counts as no load. Some failures are worst at the lightest load".into();
     b.quantity(
         "holding_pressure",
         "…or highest holding pressure",
@@ -140,6 +148,20 @@ fn form(
             ("fixed_fixed", "Fixed – fixed (K = 0.5)"),
         ]),
     );
+    b.quantity(
+        "buckling_length",
+        "Rod free length, for buckling",
+        Dimension::Length,
+        units,
+    )
+    .hint = "Pin to pin at full extension; left empty, twice the stroke is assumed".into();
+    b.quantity(
+        "rod_yield",
+        "Rod yield strength",
+        Dimension::Pressure,
+        units,
+    )
+    .hint = "Of the rod steel, e.g. 490 MPa; left empty, 355 MPa is assumed (errs low)".into();
     b.text("serial", "Serial number", "");
     b.number("drift_test_interval_days", "Drift test every", "Days");
     b.textarea("notes", "Notes");

@@ -261,6 +261,8 @@ pub struct PressureLine {
     pub scenario: &'static str,
     pub pressure: String,
     pub rating: String,
+    /// The load behind the pressure (the worst of the recorded range).
+    pub load: String,
 }
 
 pub fn pressure_line(p: &PressureHazard, units: UnitSystem) -> PressureLine {
@@ -273,6 +275,7 @@ pub fn pressure_line(p: &PressureHazard, units: UnitSystem) -> PressureLine {
         scenario: scenario_words(p.scenario),
         pressure: q(Some(p.pressure_pa), Dimension::Pressure, units),
         rating: q(Some(p.rating_pa), Dimension::Pressure, units),
+        load: q(Some(p.load_n), Dimension::Force, units),
     }
 }
 

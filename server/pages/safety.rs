@@ -3,10 +3,12 @@
 //! for the page. No formulas here: every figure comes from `calc::analysis::analyse`.
 
 use crate::calc::analysis::{self, CylinderInput, CylinderReport};
+use crate::calc::buckling::{BucklingReport, Range};
 use crate::calc::bypass::Outcome;
 use crate::calc::installed::{self, Installed, LoadSource, RatedLine};
 use crate::calc::quantity::{Dimension, UnitSystem};
-use crate::calc::ratings::Status;
+use crate::calc::ratings::{Exposure, Status};
+use crate::calc::{limits, worst_load};
 use crate::db::cylinders::Cylinder;
 use crate::db::hoses::Hose;
 use crate::pages::view::q;
@@ -25,6 +27,9 @@ pub fn installed(c: &Cylinder) -> Installed {
         tube_outside_diameter: c.tube_outside_diameter_m,
         tube_yield: c.tube_yield_pa,
         end_condition: c.end_condition.clone(),
+        min_load: c.min_load_n,
+        buckling_length: c.buckling_length_m,
+        rod_yield: c.rod_yield_pa,
     }
 }
 
@@ -62,6 +67,8 @@ pub struct Cell {
     pub heading: &'static str,
     pub pressure: String,
     pub status: &'static str,
+    /// The load behind the pressure (the worst of the recorded range).
+    pub load: String,
 }
 
 /// One rated component and what each scenario puts on it.
@@ -79,6 +86,9 @@ pub struct Panel {
     pub error: Option<String>,
     pub load: String,
     pub load_source: &'static str,
+    /// The lowest load of the range and where it came from.
+    pub min_load: String,
+    pub rod_side_load: String,
     pub holding_end: &'static str,
     pub holding_pressure: String,
     pub runs_away: bool,
@@ -92,13 +102,22 @@ pub struct Panel {
     pub tube: String,
     pub buckling: String,
     pub hazards: Vec<String>,
+    /// What cannot be checked (an end with no rating), in words.
+    pub unchecked: Vec<String>,
     pub cautions: Vec<&'static str>,
     /// `ok`, `low_margin` or `exceeds`: the worst status of any check.
     pub worst: &'static str,
 }
 
-fn worst(report: &CylinderReport) -> Status {
-    let mut statuses: Vec<Status> = report.checks.iter().map(|c| c.status).collect();
+/// The worst status of the checks that decide it ([`limits::decides_status`]: a
+/// relief-setting check counts only on an end with no rating), the tube and the rod.
+fn worst(input: &CylinderInput, report: &CylinderReport) -> Status {
+    let mut statuses: Vec<Status> = report
+        .checks
+        .iter()
+        .filter(|c| limits::decides_status(c, &input.ratings))
+        .map(|c| c.status)
+        .collect();
     statuses.extend(report.tube.map(|t| t.status));
     statuses.extend(report.buckling.map(|b| b.status));
     if statuses.contains(&Status::Exceeds) {
@@ -127,7 +146,7 @@ pub fn analyse(
 /// the figures cannot be made.
 pub fn worst_status(c: &Cylinder, hoses: &[&Hose]) -> &'static str {
     match analyse(c, hoses, UnitSystem::Metric) {
-        Ok((_, _, report)) => worst(&report).as_str(),
+        Ok((input, _, report)) => worst(&input, &report).as_str(),
         Err(_) => "unknown",
     }
 }
@@ -147,24 +166,45 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
     };
     let end = input.load_direction.holding_end();
     let scenarios: Vec<&'static str> = report.scenarios.iter().map(|s| s.name).collect();
-    let rows = input
+    let force = |si: f64| q(Some(si), Dimension::Force, units);
+    let cells = |component: &str, exposure: Exposure| -> Vec<Cell> {
+        report
+            .checks
+            .iter()
+            .filter(|check| check.component == component && check.exposure == exposure)
+            .map(|check| Cell {
+                heading: scenario_heading(check.scenario),
+                pressure: p(check.pressure),
+                status: check.status.as_str(),
+                load: force(check.load),
+            })
+            .collect()
+    };
+    let mut rows: Vec<Row> = input
         .ratings
         .iter()
         .map(|rating| Row {
             component: analysis::component_words(&rating.component),
             rating: p(rating.rating),
-            cells: report
-                .checks
-                .iter()
-                .filter(|check| check.component == rating.component)
-                .map(|check| Cell {
-                    heading: scenario_heading(check.scenario),
-                    pressure: p(check.pressure),
-                    status: check.status.as_str(),
-                })
-                .collect(),
+            cells: cells(&rating.component, rating.exposure),
         })
         .collect();
+    if let Some(relief) = input.supply_pressure {
+        for (exposure, words) in [
+            (Exposure::Cap, "Relief setting, cap end"),
+            (Exposure::Rod, "Relief setting, rod end"),
+        ] {
+            rows.push(Row {
+                component: words.into(),
+                rating: p(relief),
+                cells: cells(limits::RELIEF_SETTING, exposure),
+            });
+        }
+    }
+    let (light, _) = worst_load::range(&input);
+    let rod_side_load = worst_load::find(&report.scenarios, analysis::ROD_SIDE_INTENSIFICATION)
+        .map(|s| force(s.rod_load))
+        .unwrap_or_default();
     let unrated = hoses
         .iter()
         .filter(|h| h.working_pressure_pa.is_none() && h.port.is_some())
@@ -178,6 +218,16 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
             LoadSource::FromHoldingPressure => "from the recorded holding pressure",
             LoadSource::Unknown => "not recorded",
         },
+        min_load: format!(
+            "{} ({})",
+            force(light),
+            if c.min_load_n.is_some() {
+                "recorded lowest load"
+            } else {
+                "no lowest load recorded: none"
+            }
+        ),
+        rod_side_load,
         holding_end: end.as_str(),
         holding_pressure: p(report.holding.at(end)),
         runs_away: report.seal_bypass.outcome == Outcome::RunsAway,
@@ -196,9 +246,10 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
             .tube
             .map(|t| {
                 format!(
-                    "hoop stress at the bore {} at {}, allowable {} (yield over {})",
-                    crate::pages::forms::stress_text(t.hoop_stress, units),
+                    "equivalent stress at the bore (Tresca) {} at {} (hoop stress {}), allowable {} (yield over {})",
+                    crate::pages::forms::stress_text(t.equivalent_stress, units),
                     p(t.pressure),
+                    crate::pages::forms::stress_text(t.hoop_stress, units),
                     crate::pages::forms::stress_text(t.allowable_stress, units),
                     t.safety_factor
                 )
@@ -206,16 +257,7 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
             .unwrap_or_default(),
         buckling: report
             .buckling
-            .map(|b| {
-                format!(
-                    "{} against an allowable {} (Euler, K = {}, free length {}, factor {})",
-                    q(Some(b.load), Dimension::Force, units),
-                    q(Some(b.allowable_load), Dimension::Force, units),
-                    b.end_condition.factor(),
-                    q(Some(b.length), Dimension::Length, units),
-                    b.safety_factor
-                )
-            })
+            .map(|b| buckling_words(&b, units))
             .unwrap_or_else(|| {
                 if c.end_condition.is_none() {
                     "not checked: record the mounting (end condition) to check it".into()
@@ -224,9 +266,47 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
                 }
             }),
         hazards: report.hazards.clone(),
+        unchecked: report.notes.clone(),
         cautions: report.cautions.clone(),
-        worst: worst(&report).as_str(),
+        worst: worst(&input, &report).as_str(),
     }
+}
+
+/// The rod buckling line of the panel: the load against the lowest allowable, with Euler
+/// (theoretical factor), the design factor's figure and its range, and the free length
+/// (said as assumed when it is the default).
+fn buckling_words(b: &BucklingReport, units: UnitSystem) -> String {
+    let f = |si: f64| q(Some(si), Dimension::Force, units);
+    let e = &b.euler;
+    let d = &b.design;
+    format!(
+        "{} against an allowable {} (the lowest of: Euler with K = {}, {}; {} with the design factor K = {}, slenderness {:.0}, {}), factor {}; free length {}{}; rod yield {}{}",
+        f(e.load),
+        f(b.governing_allowable_load),
+        e.end_condition.factor(),
+        f(e.allowable_load),
+        if d.range == Range::Inelastic {
+            "Johnson"
+        } else {
+            "Euler"
+        },
+        d.effective_length_factor,
+        d.slenderness,
+        f(d.allowable_load),
+        e.safety_factor,
+        q(Some(e.length), Dimension::Length, units),
+        if b.length_assumed {
+            " (assumed: twice the stroke; record the free length)"
+        } else {
+            ""
+        },
+        crate::pages::forms::stress_text(b.yield_strength, units),
+        if b.yield_assumed {
+            " (assumed, erring low; record the rod's yield strength)"
+        } else {
+            ""
+        },
+    )
 }
 
 /// A scenario's name for a table heading.

@@ -6,9 +6,9 @@ use crate::helpers::TestApp;
 use axum::http::StatusCode;
 use serde_json::{Value, json};
 
-const PSI: f64 = 6_894.757_293_168;
+pub const PSI: f64 = 6_894.757_293_168;
 
-fn close(actual: &Value, expected_si: f64, what: &str) {
+pub fn close(actual: &Value, expected_si: f64, what: &str) {
     let si = actual["si"]
         .as_f64()
         .unwrap_or_else(|| panic!("{what}: no si in {actual}"));

@@ -10,6 +10,7 @@ mod calc_page;
 mod fuzz;
 mod health;
 mod helpers;
+mod worst_load; // issue 12: load range, relief, vacuum, tube
 // registry
 mod cylinders;
 mod demo;

@@ -205,9 +205,32 @@ async fn rod_buckling_is_checked_only_where_the_mounting_is_recorded() {
     let c = c["id"].as_i64().unwrap();
     let (_, _, page) = app.get_page(&format!("/cylinders/{c}?units=metric")).await;
     assert!(
-        page.contains("against an allowable 86.82 kN"),
+        page.contains("Euler with K = 1, 86.82 kN"),
         "Euler allowable shown"
     );
+    // Beside it the Johnson parabola (standard machine-design texts, e.g. Shigley, from
+    // memory): r = d/4 = 10 mm, K L / r = 100, below sqrt(2 pi² E / sigma_y) = 108.1 with the
+    // default 355 MPa yield, so sigma_cr = 355 - (355/(2 pi))² x 100² / 210000 = 202.99 MPa,
+    // x 1256.6 mm² = 255.08 kN, over 3 = 85.03 kN: the lower allowable governs.
+    assert!(page.contains("against an allowable 85.03 kN"), "governing");
+    assert!(
+        page.contains("assumed: twice the stroke"),
+        "length said as assumed"
+    );
+    assert!(page.contains("355 MPa (assumed"), "yield said as assumed");
+    // The free length recorded: 0.8 m, K L / r = 80: sigma_cr = 355 - 3.1922e15 x 6400 /
+    // 2.1e11 = 257.71 MPa, x 1256.6 mm² = 323.85 kN, over 3 = 107.95 kN.
+    app.patch_json(
+        &format!("/api/v1/cylinders/{c}"),
+        &json!({"buckling_length": "800 mm"}),
+    )
+    .await;
+    let (_, _, page) = app.get_page(&format!("/cylinders/{c}?units=metric")).await;
+    assert!(
+        page.contains("against an allowable 108 kN"),
+        "recorded length"
+    );
+    assert!(!page.contains("assumed: twice the stroke"));
     app.patch_json(
         &format!("/api/v1/cylinders/{c}"),
         &json!({"end_condition": null}),

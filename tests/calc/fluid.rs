@@ -24,10 +24,23 @@ fn merritt_style_worked_example_gives_about_41100_psi() {
 fn tube_modulus_is_the_lame_bore_growth() {
     // REFERENCES.md: 1/Bc = (2/E)((Do² + D²)/(Do² - D²) + nu) (Merritt, from memory) "follows
     // from Lamé" [C]: the bore's area grows by 2u/a, u the plane-stress Lamé radial growth.
+    // Written out here, not taken from the code: REFERENCES.md "Added 2026-12-02" [C], open
+    // ends (plane stress) u_a = (p a / E)((b² + a²)/(b² - a²) + nu). a = 10 mm, b = 20 mm,
+    // E = 210 GPa, nu = 0.3, p = 100 MPa: u_a = (1e8 x 0.01 / 2.1e11)(500/300 + 0.3)
+    // = 4.7619e-6 x 1.96667 = 9.365e-6 m; 1/Bc = 2 u_a / (a p) = 1.873e-11 per Pa.
     let (a, b, e, nu, p) = (0.01, 0.02, 210e9, 0.3, 100e6);
+    let u_hand = p * a / e * ((b * b + a * a) / (b * b - a * a) + nu);
+    close(u_hand, 9.365e-6, FIGURE, "bore growth by hand");
     let u = strength::lame_radial_growth(p, a, b, e, nu, AxialState::PlaneStress);
+    close(u, u_hand, 1e-9, "plane-stress bore growth");
     let bc = fluid::tube_bulk_modulus(2.0 * a, 2.0 * b, e, nu).unwrap();
-    close(1.0 / bc, 2.0 * u / (a * p), 1e-9, "container compliance");
+    close(
+        1.0 / bc,
+        2.0 * u_hand / (a * p),
+        1e-9,
+        "container compliance",
+    );
+    close(1.0 / bc, 1.873e-11, FIGURE, "container compliance, figure");
     // Thin-wall limit (common textbook result): 1/Bc -> D/(tE) as the wall thins.
     let (d, t) = (0.1, 0.001);
     let thin = fluid::tube_bulk_modulus(d, d + 2.0 * t, e, nu).unwrap();

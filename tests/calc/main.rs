@@ -4,6 +4,7 @@
 //! "from memory" where REFERENCES.md marks a value so, "[C]" where it computes a value from
 //! the inputs shown. Tolerances: figures 0.5 %, drifts 3 %.
 
+mod buckling;
 mod bypass;
 mod circuit;
 mod decay;
@@ -18,6 +19,7 @@ mod stroke_ends;
 mod units;
 mod valves;
 mod walls;
+mod worst_load;
 
 /// Tolerance for figures (pressures, areas, forces, speeds): 0.5 %.
 pub const FIGURE: f64 = 0.005;

@@ -43,16 +43,55 @@ fn thin_wall_hoop_stress_approaches_barlow() {
 
 #[test]
 fn tube_check_against_yield_with_a_safety_factor() {
-    // [C] bore 100 mm, OD 121 mm, 260 bar: hoop = p (a² + b²)/(b² - a²) = 5.309 p = 138.0 MPa;
-    // E355 yield 355 MPa (EN 10305-1, from memory) over a factor 2 = 177.5 MPa: ok.
+    // [C] bore 100 mm, OD 121 mm (a = 50 mm, b = 60.5 mm), 260 bar, from the Lamé solution
+    // (REFERENCES.md "Tube and rod strength" and "Added 2026-12-02"):
+    //   hoop at the bore  p (a² + b²)/(b² - a²) = 26 MPa x 6.16025e-3 / 1.16025e-3 = 138.04 MPa;
+    //   Tresca at the bore sigma_theta - sigma_r = 2 p b²/(b² - a²)
+    //                     = 52 MPa x 3.66025e-3 / 1.16025e-3 = 164.04 MPa.
+    // E355 yield 355 MPa (EN 10305-1, from memory) over a factor 2 = 177.5 MPa: the checked
+    // (equivalent) stress is 92.4 % of it, within 10 %: low margin (the hoop stress alone,
+    // 77.8 %, would have said ok).
     let t = strength::tube_check(0.100, 0.121, 260e5, 355e6, 2.0);
-    close(t.hoop_stress / 1e6, 138.0, FIGURE, "hoop stress");
+    close(t.hoop_stress / 1e6, 138.04, FIGURE, "hoop stress");
+    close(t.equivalent_stress / 1e6, 164.04, FIGURE, "Tresca stress");
+    assert_eq!(t.criterion, "tresca");
+    close(
+        t.equivalent_utilisation,
+        164.04 / 177.5,
+        FIGURE,
+        "utilisation",
+    );
+    close(t.utilisation, 138.04 / 177.5, FIGURE, "hoop utilisation");
+    assert_eq!(t.status, Status::LowMargin);
+    // 200 bar: Tresca 2 x 20 MPa x 3.15471 = 126.19 MPa, 71 % of 177.5: ok.
+    let t = strength::tube_check(0.100, 0.121, 200e5, 355e6, 2.0);
+    close(
+        t.equivalent_stress / 1e6,
+        126.19,
+        FIGURE,
+        "Tresca at 200 bar",
+    );
     assert_eq!(t.status, Status::Ok);
-    let t = strength::tube_check(0.100, 0.121, 400e5, 355e6, 2.0);
-    assert_eq!(
-        t.status,
-        Status::Exceeds,
-        "400 bar gives 212.4 MPa > 177.5 MPa"
+    // 300 bar: hoop 159.3 MPa is below the allowable, but Tresca 189.3 MPa is above it.
+    let t = strength::tube_check(0.100, 0.121, 300e5, 355e6, 2.0);
+    assert!(t.hoop_stress < t.allowable_stress, "{t:?}");
+    assert_eq!(t.status, Status::Exceeds, "Tresca 189.3 MPa > 177.5 MPa");
+}
+
+#[test]
+fn tresca_textbook_case_and_von_mises_beside_it() {
+    // REFERENCES.md "Added 2026-12-02" [C]: a = 10 mm, b = 20 mm, p = 100 MPa:
+    // Tresca 2 p b²/(b² - a²) = 2 x 100 x 400/300 = 266.7 MPa; von Mises (closed ends)
+    // sqrt(3) p b²/(b² - a²) = 230.9 MPa, lower, so Tresca is the cautious one.
+    let t = strength::tresca_at_bore(100e6, 0.010, 0.020);
+    close(t / 1e6, 266.67, FIGURE, "Tresca");
+    assert!(t > 3f64.sqrt() * 100e6 * 400.0 / 300.0);
+    // Hoop minus radial (-p): the same 166.7 MPa + 100 MPa.
+    close(
+        t,
+        strength::lame_hoop_at_bore(100e6, 0.010, 0.020) + 100e6,
+        1e-12,
+        "hoop - radial",
     );
 }
 

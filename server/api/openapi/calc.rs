@@ -11,6 +11,7 @@ pub const CYLINDER: &[&str] = &[
     "stroke",
     "position",
     "load",
+    "min_load",
     "load_direction",
     "bulk_modulus",
     "oil_expansion",
@@ -23,11 +24,16 @@ pub const CYLINDER: &[&str] = &[
     "tube_outside_diameter",
     "tube_yield",
     "tube_safety_factor",
+    "tube_youngs_modulus",
+    "tube_poisson_ratio",
     "temperature_rise",
     "pilot_ratio",
     "end_condition",
     "buckling_length",
     "buckling_safety_factor",
+    "rod_youngs_modulus",
+    "rod_poisson_ratio",
+    "rod_yield",
     "ratings",
     "units",
     "holding_valve",
@@ -79,22 +85,29 @@ pub fn field(name: &str) -> S {
         | "end_position" => opt_quantity_in(D::Length),
         "drift" => nullable(quantity_in(D::Length, true)),
         "load" => quantity_in(D::Force, false),
+        "min_load" => opt_quantity_in(D::Force),
         "load_direction" => words(&["retract", "extend"]),
         "bulk_modulus"
         | "supply_pressure"
         | "tube_yield"
-        | "cap_pressure_start"
+        | "tube_youngs_modulus"
+        | "rod_youngs_modulus"
+        | "rod_yield" => opt_quantity_in(D::Pressure),
+        // Gauge readings: a vacuum is a reading (down to -1 atm, -101325 Pa; the server
+        // refuses below that, naming the field).
+        "cap_pressure_start"
         | "cap_pressure_end"
         | "rod_pressure_start"
         | "rod_pressure_end"
         | "other_pressure_start"
-        | "other_pressure_end" => opt_quantity_in(D::Pressure),
-        "pressure_start" | "pressure_end" => quantity_in(D::Pressure, false),
+        | "other_pressure_end" => nullable(quantity_in(D::Pressure, true)),
+        "pressure_start" | "pressure_end" => quantity_in(D::Pressure, true),
         "oil_expansion" => opt_quantity_in(D::Expansion),
         "flow" => opt_quantity_in(D::Flow),
         "cap_line_volume" | "rod_line_volume" => opt_quantity_in(D::Volume),
         "cap_line_expansion" | "rod_line_expansion" => opt_quantity_in(D::Compliance),
         "tube_safety_factor" | "pilot_ratio" | "buckling_safety_factor" => nullable(number()),
+        "tube_poisson_ratio" | "rod_poisson_ratio" => nullable(number_range(0.0, 0.499)),
         "temperature_rise" => nullable(quantity_in(D::TemperatureChange, true)),
         "end_condition" => nullable(words(&[
             "fixed_free",

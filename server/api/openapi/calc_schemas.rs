@@ -6,6 +6,21 @@ fn status() -> S {
     words(&["ok", "low_margin", "exceeds"])
 }
 
+/// One effective-length factor's buckling figures.
+fn buckling_figure() -> S {
+    object(
+        vec![
+            ("effective_length_factor", number()),
+            ("slenderness", number()),
+            ("range", words(&["elastic", "inelastic"])),
+            ("method", words(&["euler", "johnson"])),
+            ("critical_load", quantity()),
+            ("allowable_load", quantity()),
+        ],
+        &["effective_length_factor", "slenderness", "critical_load"],
+    )
+}
+
 fn texts() -> S {
     array(string())
 }
@@ -27,6 +42,10 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("calc_version", string()),
                     ("units", words(&["us", "metric"])),
                     ("load_direction", words(&["retract", "extend"])),
+                    (
+                        "load_range",
+                        object(qs(&["min_load", "load"]), &["min_load", "load"]),
+                    ),
                     ("position", quantity()),
                     (
                         "areas",
@@ -80,7 +99,7 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     (
                         "rod_side_intensification",
                         nullable(object(
-                            qs(&["supply_pressure", "rod_pressure"]),
+                            qs(&["supply_pressure", "rod_pressure", "load"]),
                             &["supply_pressure", "rod_pressure"],
                         )),
                     ),
@@ -188,48 +207,87 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 qs(&[
                                     "pressure",
                                     "hoop_stress",
+                                    "equivalent_stress",
                                     "yield_strength",
                                     "allowable_stress",
                                 ]),
                                 vec![
+                                    ("criterion", words(&["tresca"])),
+                                    ("equivalent_utilisation", number()),
                                     ("safety_factor", number()),
                                     ("utilisation", number()),
                                     ("status", status()),
                                 ],
                             ),
-                            &["pressure", "hoop_stress", "status"],
+                            &["pressure", "hoop_stress", "equivalent_stress", "status"],
                         )),
                     ),
                     (
                         "buckling",
                         nullable(object(
                             with(
-                                qs(&["length", "critical_load", "allowable_load", "load"]),
+                                qs(&[
+                                    "length",
+                                    "critical_load",
+                                    "allowable_load",
+                                    "load",
+                                    "youngs_modulus",
+                                    "rod_yield_strength",
+                                    "governing_allowable_load",
+                                ]),
                                 vec![
                                     ("end_condition", string()),
                                     ("effective_length_factor", number()),
                                     ("safety_factor", number()),
                                     ("status", status()),
+                                    ("euler_status", status()),
+                                    ("length_assumed", boolean()),
+                                    ("length_basis", string()),
+                                    ("rod_yield_assumed", boolean()),
+                                    ("inelastic_method", words(&["johnson"])),
+                                    ("slenderness", number()),
+                                    ("transition_slenderness", number()),
+                                    ("theoretical", buckling_figure()),
+                                    ("design", buckling_figure()),
                                 ],
                             ),
-                            &["critical_load", "status"],
+                            &["critical_load", "status", "governing_allowable_load"],
                         )),
                     ),
                     ("highest_pressure", quantity()),
+                    (
+                        "scenarios",
+                        array(object(
+                            with(
+                                vec![("name", string())],
+                                qs(&["cap_pressure", "rod_pressure", "cap_load", "rod_load"]),
+                            ),
+                            &[
+                                "name",
+                                "cap_pressure",
+                                "rod_pressure",
+                                "cap_load",
+                                "rod_load",
+                            ],
+                        )),
+                    ),
                     (
                         "checks",
                         array(object(
                             vec![
                                 ("component", string()),
+                                ("exposure", words(&["cap", "rod", "both"])),
                                 ("scenario", string()),
                                 ("pressure", quantity()),
                                 ("rating", quantity()),
                                 ("status", status()),
+                                ("load", quantity()),
                             ],
                             &["component", "scenario", "pressure", "rating", "status"],
                         )),
                     ),
                     ("hazards", texts()),
+                    ("notes", texts()),
                     ("cautions", texts()),
                 ],
                 &[

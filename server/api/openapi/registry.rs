@@ -102,11 +102,14 @@ pub const CYLINDER: &[&str] = &[
     "stroke",
     "load_direction",
     "max_load",
+    "min_load",
     "holding_pressure",
     "rated_pressure",
     "tube_outside_diameter",
     "tube_yield",
     "end_condition",
+    "buckling_length",
+    "rod_yield",
     "serial",
     "notes",
     "drift_test_interval_days",
@@ -120,9 +123,11 @@ pub fn cylinder_field(name: &str) -> S {
         "function" => opt_text(120),
         "bore" | "rod" | "stroke" => quantity_in(D::Length, false),
         "load_direction" => words(&["retract", "extend"]),
-        "max_load" => opt_quantity_in(D::Force),
-        "holding_pressure" | "rated_pressure" | "tube_yield" => opt_quantity_in(D::Pressure),
-        "tube_outside_diameter" => opt_quantity_in(D::Length),
+        "max_load" | "min_load" => opt_quantity_in(D::Force),
+        "holding_pressure" | "rated_pressure" | "tube_yield" | "rod_yield" => {
+            opt_quantity_in(D::Pressure)
+        }
+        "tube_outside_diameter" | "buckling_length" => opt_quantity_in(D::Length),
         "end_condition" => nullable(words(&[
             "fixed_free",
             "pinned_pinned",

@@ -220,6 +220,7 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ("component", string()),
                                 ("pressure", quantity()),
                                 ("rating", quantity()),
+                                ("load", quantity()),
                             ],
                             &[
                                 "machine_id",

@@ -1,14 +1,16 @@
-//! The hazard list: cylinders whose piston-seal-bypass or rod-side pressure at the machine's
-//! relief setting exceeds a rating on their circuit; hoses past their replace-by date or
+//! The hazard list: cylinders where a scenario (at the worst load of the recorded range)
+//! puts a pressure above a rating on their circuit, or, on an end with no rating, above the
+//! machine's relief setting; hoses past their replace-by date or
 //! older than the shop's age limit; cylinders whose drift trend reaches its limit within the
 //! window. Three queries for the whole fleet (cylinders, hoses, drift tests); the figures come
 //! from the engineering core (`calc::analysis`, `calc::trend`).
 
 use super::hoses::{self, HoseAge, HoseRow, HoseScope};
 use super::{FleetFilter, day_of};
-use crate::calc::analysis::{self, CylinderInput, ROD_SIDE_INTENSIFICATION, SEAL_BYPASS};
+use crate::calc::analysis::{self, CylinderInput, ROD_SIDE_INTENSIFICATION};
 use crate::calc::due::add_days;
 use crate::calc::installed::{self, Installed, RatedLine};
+use crate::calc::limits;
 use crate::calc::quantity::UnitSystem;
 use crate::calc::ratings::{Exposure, Status};
 use crate::calc::trend::{self, Crossing, Sample};
@@ -36,16 +38,20 @@ pub struct PressureHazard {
     pub site_name: Option<String>,
     pub cylinder_id: i64,
     pub cylinder_function: Option<String>,
-    /// `seal_bypass`, `rod_side_intensification` (the rod end, or the cylinder, above its
-    /// rating), or `relief_setting` (a cap-line rating below the relief setting itself).
+    /// The scenario (`normal_holding`, `seal_bypass`, `rod_side_intensification`,
+    /// `trapped_oil_heating`) whose pressure is above the component's rating, or
+    /// `relief_setting` (a cap-line rating below the relief setting itself).
     pub scenario: &'static str,
-    /// `cylinder`, or the hose's label (`H12 (cap port, SAE 100R2AT)`).
+    /// `cylinder`, the hose's label (`H12 (cap port, SAE 100R2AT)`), or `relief_setting` (an
+    /// end with no rating recorded, whose pressure is above the machine's relief setting).
     pub component: String,
     /// The hose, when the rating is a hose's.
     pub hose_id: Option<i64>,
     /// Pressure the scenario puts on the component and its rating, Pa.
     pub pressure_pa: f64,
     pub rating_pa: f64,
+    /// The load in the cylinder's recorded range behind the pressure, N (the worst one).
+    pub load_n: f64,
 }
 
 /// A drift trend reaching its limit.
@@ -97,6 +103,9 @@ struct CylinderRow {
     tube_outside_diameter_m: Option<f64>,
     tube_yield_pa: Option<f64>,
     end_condition: Option<String>,
+    min_load_n: Option<f64>,
+    buckling_length_m: Option<f64>,
+    rod_yield_pa: Option<f64>,
 }
 
 async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>, sqlx::Error> {
@@ -104,7 +113,8 @@ async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>
         "SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name, c.function,
             c.bore_m, c.rod_m, c.stroke_m, c.load_direction, c.max_load_n,
             c.holding_pressure_pa, c.rated_pressure_pa, m.relief_pressure_pa,
-            c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition
+            c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition, c.min_load_n,
+            c.buckling_length_m, c.rod_yield_pa
          FROM cylinders c
          JOIN machines m ON m.id = c.machine_id
          LEFT JOIN sites s ON s.id = m.site_id
@@ -145,6 +155,9 @@ fn input(c: &CylinderRow, hoses: &[&HoseRow]) -> Option<CylinderInput> {
         tube_outside_diameter: c.tube_outside_diameter_m,
         tube_yield: c.tube_yield_pa,
         end_condition: c.end_condition.clone(),
+        min_load: c.min_load_n,
+        buckling_length: c.buckling_length_m,
+        rod_yield: c.rod_yield_pa,
     };
     let lines: Vec<RatedLine> = hoses
         .iter()
@@ -167,11 +180,13 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
     let Ok(report) = analysis::analyse(&input, UnitSystem::Metric) else {
         return Vec::new();
     };
+    // Every scenario, at the worst load of the range; a relief-setting check only on an end
+    // with no rating (where a rating is recorded, the rating decides: limits::decides_status).
     report
         .checks
         .iter()
         .filter(|k| k.status == Status::Exceeds)
-        .filter(|k| k.scenario == SEAL_BYPASS || k.scenario == ROD_SIDE_INTENSIFICATION)
+        .filter(|k| limits::decides_status(k, &input.ratings))
         .map(|k| (k, relabel(&input, k.scenario, &k.component)))
         .map(|(k, scenario)| PressureHazard {
             machine_id: c.machine_id,
@@ -188,6 +203,7 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
                 .map(|h| h.id),
             pressure_pa: k.pressure,
             rating_pa: k.rating,
+            load_n: k.load,
         })
         .collect()
 }

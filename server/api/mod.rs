@@ -12,6 +12,7 @@ pub mod calc;
 pub mod calc_input;
 pub mod calc_output;
 pub mod cylinder_answer;
+pub mod decision_answer;
 
 // registry
 pub mod cylinder_draft;
@@ -40,6 +41,9 @@ pub mod test_body;
 pub mod report_rows;
 pub mod reports;
 
+// service status
+pub mod service_status;
+
 /// Every JSON route. Add one `.merge(...)` line per module.
 pub fn router() -> Router<AppState> {
     Router::new()
@@ -56,6 +60,7 @@ pub fn router() -> Router<AppState> {
         .merge(procedures::router())
         // reports
         .merge(reports::router())
+        .merge(service_status::router())
         .merge(openapi::router()) // proof
         .route("/api/{*rest}", axum::routing::any(api_not_found))
 }

@@ -7,6 +7,7 @@
 mod bypass;
 mod circuit;
 mod decay;
+mod decision;
 mod diagnosis;
 mod due;
 mod fluid;

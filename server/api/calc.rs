@@ -5,7 +5,7 @@ use super::calc_input::{
 };
 use super::input::{Body, Fields};
 use crate::app::AppState;
-use crate::calc::{analysis, decay, drift};
+use crate::calc::{analysis, decay, decision_findings, drift};
 use crate::error::ApiResult;
 use axum::response::{IntoResponse, Response};
 use axum::routing::post;
@@ -38,7 +38,11 @@ async fn drift_test(Body(map): Body) -> ApiResult<Json<Value>> {
     let input = parse_cylinder_request(&f)?;
     let readings = calc_input::parse_drift_readings(&f)?;
     let report = drift::analyse_drift(&input, &readings, units).map_err(calc_error)?;
-    Ok(Json(calc_input::drift_response(&report, units)))
+    let ruling =
+        decision_findings::drift_ruling(&input, &readings, &report, units).map_err(calc_error)?;
+    let mut answer = calc_input::drift_response(&report, units);
+    super::decision_answer::add(&mut answer, &ruling);
+    Ok(Json(answer))
 }
 
 /// `POST /api/v1/calc/pressure-decay`: a pressure-decay test at the end of stroke.
@@ -56,5 +60,9 @@ async fn pressure_decay(Body(mut map): Body) -> ApiResult<Json<Value>> {
     let input = parse_cylinder_request(&f)?;
     let readings = calc_input::parse_decay_readings(&f)?;
     let report = decay::analyse_decay(&input, &readings, units).map_err(calc_error)?;
-    Ok(Json(calc_input::decay_response(&report, units)))
+    let ruling =
+        decision_findings::decay_ruling(&input, &readings, &report, units).map_err(calc_error)?;
+    let mut answer = calc_input::decay_response(&report, units);
+    super::decision_answer::add(&mut answer, &ruling);
+    Ok(Json(answer))
 }

@@ -4,6 +4,7 @@
 
 use super::calc_input::{DECAY_FIELDS, calc_error, parse_cylinder_request, parse_decay_readings};
 use super::calc_output::decay_response;
+use super::decision_answer;
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
@@ -17,6 +18,7 @@ use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::CALC_VERSION;
 use crate::calc::decay::analyse_decay;
+use crate::calc::decision_findings::decay_ruling;
 use crate::calc::quantity::Dimension as D;
 use crate::db::Db;
 use crate::db::cylinders::Cylinder;
@@ -123,7 +125,9 @@ fn analyse(
     let input = parse_cylinder_request(&rf)?;
     let readings = parse_decay_readings(&rf)?;
     let report = analyse_decay(&input, &readings, units).map_err(calc_error)?;
-    let analysis = decay_response(&report, units);
+    let ruling = decay_ruling(&input, &readings, &report, units).map_err(calc_error)?;
+    let mut analysis = decay_response(&report, units);
+    decision_answer::add(&mut analysis, &ruling);
     Ok(NewDecayTest {
         cylinder_id: cylinder.id,
         procedure_id: procedure.map(|p| p.id),
@@ -157,18 +161,28 @@ fn analyse(
         notes: record.notes,
         client_token: record.token,
         amends_id: record.amends,
+        decision: ruling.decision.as_str().to_string(),
+        decision_json: decision_answer::stored(&ruling),
+        signed_by_user_id: None,
     })
 }
 
 pub async fn store(db: &Db, actor: &Actor, new: &NewDecayTest) -> ApiResult<Stored<DecayTest>> {
+    let mut new = new.clone();
+    new.signed_by_user_id = actor.user_id;
     let (_write, mut tx) = crate::db::begin_write(db).await?;
-    let stored = store::insert(&mut tx, &actor.name, new).await?;
+    let stored = store::insert(&mut tx, &actor.name, &new).await?;
     tx.commit().await?;
     Ok(stored)
 }
 
 pub fn to_json(t: &DecayTest) -> Value {
-    json!({
+    let decided = decision_answer::of_record(
+        t.decision.as_deref(),
+        t.decision_json.as_deref(),
+        (Some(&t.verdict), Some(&t.diagnosis), None),
+    );
+    let mut answer = json!({
         "id": t.id,
         "cylinder_id": t.cylinder_id,
         "procedure_id": t.procedure_id,
@@ -187,7 +201,9 @@ pub fn to_json(t: &DecayTest) -> Value {
         "in_force": t.in_force(),
         "created_at": t.created_at,
         "created_by": t.created_by,
-    })
+    });
+    decision_answer::add_to_record(&mut answer, decided, &t.created_by, &t.technician);
+    answer
 }
 
 async fn create(

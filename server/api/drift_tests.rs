@@ -4,6 +4,7 @@
 
 use super::calc_input::{DRIFT_FIELDS, calc_error, parse_cylinder_request, parse_drift_readings};
 use super::calc_output::drift_response;
+use super::decision_answer;
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
@@ -16,6 +17,7 @@ use super::test_body::{accepted, complete_request, read_head};
 use crate::app::AppState;
 use crate::auth::Actor;
 use crate::calc::CALC_VERSION;
+use crate::calc::decision_findings::drift_ruling;
 use crate::calc::drift::{Movement, analyse_drift};
 use crate::calc::quantity::Dimension as D;
 use crate::db::Db;
@@ -130,7 +132,9 @@ fn analyse(
     let input = parse_cylinder_request(&rf)?;
     let readings = parse_drift_readings(&rf)?;
     let report = analyse_drift(&input, &readings, units).map_err(calc_error)?;
-    let analysis = drift_response(&report, units);
+    let ruling = drift_ruling(&input, &readings, &report, units).map_err(calc_error)?;
+    let mut analysis = drift_response(&report, units);
+    decision_answer::add(&mut analysis, &ruling);
     let (drift_m, start, end) = match readings.movement {
         Movement::Drift(d) => (Some(d), None, None),
         Movement::Positions { start, end } => (None, Some(start), Some(end)),
@@ -173,13 +177,17 @@ fn analyse(
         notes: common.notes,
         client_token: common.token,
         amends_id: common.amends,
+        decision: ruling.decision.as_str().to_string(),
+        decision_json: decision_answer::stored(&ruling),
+        signed_by_user_id: None,
     })
 }
 
 /// Stores a prepared drift test with its audit row, committed with whatever other drift tests
 /// arrived meanwhile (`db::group_commit`: one fsync for the group); answered after the commit.
 pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stored<DriftTest>> {
-    let (name, new) = (actor.name.clone(), new.clone());
+    let (name, mut new) = (actor.name.clone(), new.clone());
+    new.signed_by_user_id = actor.user_id;
     let stored = crate::db::group_commit::write(db, move |conn| {
         Box::pin(async move { store::insert(conn, &name, &new).await })
     })
@@ -190,7 +198,12 @@ pub async fn store(db: &Db, actor: &Actor, new: &NewDriftTest) -> ApiResult<Stor
 /// A stored drift test as the API shows it: the readings as sent to the core, the analysis as
 /// computed, and who recorded it and when.
 pub fn to_json(t: &DriftTest) -> Value {
-    json!({
+    let decided = decision_answer::of_record(
+        t.decision.as_deref(),
+        t.decision_json.as_deref(),
+        (Some(&t.verdict), Some(&t.diagnosis), None),
+    );
+    let mut answer = json!({
         "id": t.id,
         "cylinder_id": t.cylinder_id,
         "procedure_id": t.procedure_id,
@@ -214,7 +227,9 @@ pub fn to_json(t: &DriftTest) -> Value {
         "in_force": t.in_force(),
         "created_at": t.created_at,
         "created_by": t.created_by,
-    })
+    });
+    decision_answer::add_to_record(&mut answer, decided, &t.created_by, &t.technician);
+    answer
 }
 
 /// `POST /api/v1/cylinders/{id}/drift-tests`: 201 with the new record, or 200 with the record

@@ -9,6 +9,8 @@ use super::shop_answer::{all_items, stored_answer, stored_json};
 use super::shop_input;
 use crate::app::AppState;
 use crate::auth::Actor;
+use crate::calc::decision::{self, InspectionResult};
+use crate::calc::decision_findings;
 use crate::db::Db;
 use crate::db::inspections::{self as store, Inspection, KINDS, NewInspection, RESULTS};
 use crate::db::machines::{self, Machine};
@@ -157,6 +159,12 @@ pub fn prepare(
     else {
         return Err(p.0);
     };
+    let ruling = decision::decide(
+        &decision_findings::inspection_findings(
+            InspectionResult::parse(result).unwrap_or(InspectionResult::Fail),
+        ),
+        Default::default(),
+    );
     p.finish(NewInspection {
         machine_id: machine.id,
         kind: kind.into(),
@@ -169,19 +177,29 @@ pub fn prepare(
         corrective_action: corrective,
         client_token: token,
         amends_id: amends,
+        decision: ruling.decision.as_str().to_string(),
+        decision_json: super::decision_answer::stored(&ruling),
+        signed_by_user_id: None,
     })
 }
 
 /// Stores a prepared inspection (and its effect on the machine's status) in one transaction.
 pub async fn store(db: &Db, actor: &Actor, new: &NewInspection) -> ApiResult<Stored<Inspection>> {
+    let mut new = new.clone();
+    new.signed_by_user_id = actor.user_id;
     let (_write, mut tx) = crate::db::begin_write(db).await?;
-    let stored = store::insert(&mut tx, &actor.name, new).await?;
+    let stored = store::insert(&mut tx, &actor.name, &new).await?;
     tx.commit().await?;
     Ok(stored)
 }
 
 pub fn to_json(i: &Inspection) -> Value {
-    json!({
+    let decided = super::decision_answer::of_record(
+        i.decision.as_deref(),
+        i.decision_json.as_deref(),
+        (None, None, Some(&i.result)),
+    );
+    let mut answer = json!({
         "id": i.id,
         "machine_id": i.machine_id,
         "kind": i.kind,
@@ -198,7 +216,9 @@ pub fn to_json(i: &Inspection) -> Value {
         "in_force": i.in_force(),
         "created_at": i.created_at,
         "created_by": i.created_by,
-    })
+    });
+    super::decision_answer::add_to_record(&mut answer, decided, &i.created_by, &i.inspector);
+    answer
 }
 
 async fn machine(db: &Db, id: &str) -> ApiResult<Machine> {

@@ -13,6 +13,7 @@ pub mod calc_input;
 pub mod calc_output;
 pub mod calc_valves;
 pub mod cylinder_answer;
+pub mod decision_answer;
 
 // registry
 pub mod cylinder_draft;
@@ -41,6 +42,9 @@ pub mod test_body;
 pub mod report_rows;
 pub mod reports;
 
+// service status
+pub mod service_status;
+
 /// Every JSON route. Add one `.merge(...)` line per module.
 pub fn router() -> Router<AppState> {
     Router::new()
@@ -57,6 +61,7 @@ pub fn router() -> Router<AppState> {
         .merge(procedures::router())
         // reports
         .merge(reports::router())
+        .merge(service_status::router())
         .merge(openapi::router()) // proof
         .route("/api/{*rest}", axum::routing::any(api_not_found))
 }

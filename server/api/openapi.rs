@@ -27,6 +27,7 @@ pub mod dsl;
 mod registry;
 mod registry_schemas;
 mod reports;
+mod service;
 mod shop;
 mod shop_schemas;
 
@@ -254,6 +255,7 @@ pub fn operations() -> Vec<Op> {
     ops.extend(registry::operations());
     ops.extend(shop::operations());
     ops.extend(reports::operations());
+    ops.extend(service::operations());
     ops
 }
 

@@ -5,7 +5,7 @@ use super::paging::shown;
 use crate::calc::cautions;
 use crate::calc::quantity::{Dimension, UnitSystem, format as show_quantity};
 use crate::db::reports::DueItem;
-use crate::db::reports::fleet::OutOfService;
+use crate::db::reports::fleet::{OutOfService, Restricted};
 use crate::db::reports::hazards::{Hazards, scenario_words};
 use crate::db::reports::hoses::HoseAge;
 use serde_json::{Value, json};
@@ -134,6 +134,11 @@ pub fn out_of_service_json(o: &OutOfService) -> Value {
             "at": o.change_at,
             "by": o.change_by,
         }),
+        kind @ ("drift_test" | "decay_test") => json!({
+            "type": kind,
+            "id": o.status_record_id,
+            "at": o.status_change_at,
+        }),
         _ => json!({"type": "unknown", "id": null}),
     };
     json!({
@@ -145,6 +150,22 @@ pub fn out_of_service_json(o: &OutOfService) -> Value {
         "reason": o.reason,
         "since": o.since,
         "record": record,
+    })
+}
+
+/// A restricted machine as the out-of-service report's JSON lists it.
+pub fn restricted_json(r: &Restricted) -> Value {
+    json!({
+        "machine_id": r.machine_id,
+        "unit_number": r.unit_number,
+        "site_id": r.site_id,
+        "site_name": r.site_name,
+        "machine_kind": r.machine_kind,
+        "status": "restricted",
+        "reason": r.reason,
+        "since": r.since,
+        "restrictions": r.restrictions(),
+        "record": {"type": r.record_kind, "id": r.record_id},
     })
 }
 

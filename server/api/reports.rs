@@ -189,6 +189,7 @@ async fn out_of_service(State(state): State<AppState>, params: Params) -> ApiRes
     let fmt = format(&params)?;
     let filter = fleet_filter(&state, &params).await?;
     let items = fleet::out_of_service(&state.db, &filter).await?;
+    let restricted = fleet::restricted(&state.db, &filter).await?;
     Ok(match fmt {
         Format::Csv => csv_response(
             "out-of-service",
@@ -197,6 +198,7 @@ async fn out_of_service(State(state): State<AppState>, params: Params) -> ApiRes
         )?,
         Format::Json => Json(json!({
             "items": items.iter().map(report_rows::out_of_service_json).collect::<Vec<_>>(),
+            "restricted": restricted.iter().map(report_rows::restricted_json).collect::<Vec<_>>(),
         }))
         .into_response(),
     })

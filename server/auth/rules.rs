@@ -37,6 +37,8 @@ const EDIT: &str = "edit the registry";
 const SHOP: &str = "enter shop records";
 const REPORTS: &str = "pull reports";
 const ADMIN: &str = "manage users, tokens, settings or the audit log";
+const RETURN: &str = "return a machine to service (a manager approves after a passing retest)";
+const DUE: &str = "read the due list of your site";
 
 const fn public(methods: Methods, pattern: &'static str) -> Rule {
     Rule {
@@ -74,6 +76,11 @@ static RULES: &[Rule] = &[
     role(Any, "/api/v1/tokens", Admin, ADMIN),
     role(Any, "/api/v1/audit", Admin, ADMIN),
     role(Any, "/api/v1/settings", Admin, ADMIN),
+    // Managers: returning a machine to service (the two-person rule, db::service_return).
+    role(Any, "/api/v1/machines/*/return-to-service", Manager, RETURN),
+    role(Any, "/machines/*/return-to-service", Manager, RETURN),
+    // Technicians: reading the due list (the shop's work list); other reports are managers'.
+    role(Read, "/api/v1/reports/due", Technician, DUE),
     // Managers: reports.
     role(Any, "/reports", Manager, REPORTS),
     role(Any, "/api/v1/reports", Manager, REPORTS),

@@ -15,6 +15,8 @@ pub mod circuit;
 pub mod cylinder;
 pub mod cylinder_input;
 pub mod decay;
+pub mod decision;
+pub mod decision_findings;
 pub mod diagnosis;
 pub mod drift;
 pub mod due;

@@ -4,7 +4,7 @@
 
 use super::records::{self, Record, Stored, Table};
 use super::write::WriteError;
-use super::{Db, cylinders};
+use super::{Db, cylinders, status, status_apply};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -46,6 +46,12 @@ pub struct DriftTest {
     pub amends_id: Option<i64>,
     pub created_at: String,
     pub created_by: String,
+    /// `fit_for_service`, `restricted` or `remove_from_service` (NULL before migration 0008).
+    pub decision: Option<String>,
+    /// `{"reasons", "restrictions", "rules"}` as decided when stored.
+    pub decision_json: Option<String>,
+    /// The account that signed the record (`created_by` is its display name).
+    pub signed_by_user_id: Option<i64>,
     /// The later record that corrects this one, if any.
     pub amended_by_id: Option<i64>,
 }
@@ -97,6 +103,11 @@ pub struct NewDriftTest {
     pub notes: Option<String>,
     pub client_token: Option<String>,
     pub amends_id: Option<i64>,
+    /// The decision and its JSON (`calc::decision`), decided when the record was read.
+    pub decision: String,
+    pub decision_json: String,
+    /// The signing account, set by the API from the logged-in user.
+    pub signed_by_user_id: Option<i64>,
 }
 
 impl Record for DriftTest {
@@ -118,7 +129,7 @@ macro_rules! select_drift_test {
             t.load_direction, t.limit_distance_m, t.limit_period_s, t.readings_json,
             t.analysis_json, t.calc_version, t.verdict, t.diagnosis, t.scaled_drift_m,
             t.leak_drift_m, t.scaled_leak_drift_m, t.scaled_period_s, t.flags, t.notes,
-            t.client_token, t.amends_id, t.created_at, t.created_by,
+            t.client_token, t.amends_id, t.created_at, t.created_by, t.decision, t.decision_json, t.signed_by_user_id,
             (SELECT MIN(a.id) FROM drift_tests a WHERE a.amends_id = t.id) AS amended_by_id
          FROM drift_tests t "
     };
@@ -183,9 +194,10 @@ pub async fn insert(
             cap_pressure_end_pa, rod_pressure_start_pa, rod_pressure_end_pa, load_n,
             load_direction, limit_distance_m, limit_period_s, readings_json, analysis_json,
             calc_version, verdict, diagnosis, scaled_drift_m, leak_drift_m, scaled_leak_drift_m,
-            scaled_period_s, flags, notes, client_token, amends_id, created_at, created_by)
+            scaled_period_s, flags, notes, client_token, amends_id, created_at, created_by, decision, decision_json,
+            signed_by_user_id)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?,
-            ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+            ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(t.cylinder_id)
     .bind(t.procedure_id)
@@ -221,9 +233,12 @@ pub async fn insert(
     .bind(t.amends_id)
     .bind(super::now_rfc3339())
     .bind(actor)
+    .bind(&t.decision)
+    .bind(&t.decision_json)
+    .bind(t.signed_by_user_id)
     .fetch_one(&mut *conn)
     .await;
-    records::finish(
+    let stored = records::finish(
         conn,
         &TABLE,
         actor,
@@ -232,5 +247,23 @@ pub async fn insert(
         t.cylinder_id,
         before.as_ref(),
     )
-    .await
+    .await?;
+    if let Stored::Created(r) = &stored {
+        let who = status::Who {
+            name: actor,
+            user_id: r.signed_by_user_id,
+        };
+        let record = status_apply::Stored {
+            kind: "drift_test",
+            id: r.id,
+            machine_id: None,
+            cylinder_id: Some(r.cylinder_id),
+            decision: r.decision.as_deref(),
+            decision_json: r.decision_json.as_deref(),
+            on: &r.tested_at,
+            performed_by: &r.technician,
+        };
+        status_apply::apply_stored(conn, who, record).await?;
+    }
+    Ok(stored)
 }

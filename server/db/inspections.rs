@@ -1,10 +1,11 @@
 //! Inspections of a machine (periodic or frequent). Append-only: a correction is a new row
 //! that amends the old. A `fail` puts the machine out of service in the same transaction and
-//! names itself as the cause; a later `pass` or `pass_with_deficiencies` puts it back.
+//! names itself as the cause; a `pass_with_deficiencies` restricts it. No inspection puts a
+//! machine back: a manager returns it after a passing one (`db::service_return`).
 
 use super::records::{self, Record, Stored, Table};
 use super::write::WriteError;
-use super::{Db, machines};
+use super::{Db, machines, status, status_apply};
 use serde::Serialize;
 use sqlx::SqliteConnection;
 
@@ -28,6 +29,12 @@ pub struct Inspection {
     pub amends_id: Option<i64>,
     pub created_at: String,
     pub created_by: String,
+    /// `fit_for_service`, `restricted` or `remove_from_service` (NULL before migration 0008).
+    pub decision: Option<String>,
+    /// `{"reasons", "restrictions", "rules"}` as decided when stored.
+    pub decision_json: Option<String>,
+    /// The account that signed the record (`created_by` is its display name).
+    pub signed_by_user_id: Option<i64>,
     pub amended_by_id: Option<i64>,
 }
 
@@ -52,6 +59,11 @@ pub struct NewInspection {
     pub corrective_action: Option<String>,
     pub client_token: Option<String>,
     pub amends_id: Option<i64>,
+    /// The decision and its JSON (`calc::decision`), decided when the record was read.
+    pub decision: String,
+    pub decision_json: String,
+    /// The signing account, set by the API from the logged-in user.
+    pub signed_by_user_id: Option<i64>,
 }
 
 impl Record for Inspection {
@@ -68,7 +80,7 @@ macro_rules! select_inspection {
     () => {
         "SELECT i.id, i.machine_id, i.kind, i.performed_on, i.hour_meter_h, i.inspector,
             i.result, i.items_json, i.deficiencies, i.corrective_action, i.client_token,
-            i.amends_id, i.created_at, i.created_by,
+            i.amends_id, i.created_at, i.created_by, i.decision, i.decision_json, i.signed_by_user_id,
             (SELECT MIN(a.id) FROM inspections a WHERE a.amends_id = i.id) AS amended_by_id
          FROM inspections i "
     };
@@ -124,10 +136,11 @@ async fn cause(conn: &mut SqliteConnection, machine_id: i64) -> Result<Option<i6
     .map(Option::flatten)
 }
 
-/// Applies a stored inspection to its machine's status: a fail takes it out of service (the
-/// reason names the record) unless a later inspection already passed; a pass clears an out-of-service that an inspection caused, when
-/// it is not older than that inspection or when it corrects it. The hour meter moves forward
-/// when the inspection read more than the machine's last reading.
+/// Applies a stored inspection to its machine's status through its decision
+/// (`db::status`): a fail takes the machine out of service (and names itself as the cause), a
+/// pass with deficiencies restricts it, and a pass changes nothing (only a manager's approval
+/// returns a machine). The hour meter moves forward when the inspection read more than the
+/// machine's last reading.
 async fn apply_to_machine(
     conn: &mut SqliteConnection,
     actor: &str,
@@ -136,28 +149,23 @@ async fn apply_to_machine(
     let machine = machines::get(conn, stored.machine_id)
         .await?
         .ok_or(WriteError::NotFound("machine"))?;
-    if stored.result == "fail" && !passed_since(conn, stored).await? {
-        let reason = format!(
-            "failed {} inspection #{} on {} by {}",
-            stored.kind, stored.id, stored.performed_on, stored.inspector
-        );
-        machines::set_status(
-            conn,
-            actor,
-            stored.machine_id,
-            Some((&reason, &stored.performed_on)),
-        )
-        .await?;
+    let who = status::Who {
+        name: actor,
+        user_id: stored.signed_by_user_id,
+    };
+    let record = status_apply::Stored {
+        kind: "inspection",
+        id: stored.id,
+        machine_id: Some(stored.machine_id),
+        cylinder_id: None,
+        decision: stored.decision.as_deref(),
+        decision_json: stored.decision_json.as_deref(),
+        on: &stored.performed_on,
+        performed_by: &stored.inspector,
+    };
+    let changed = status_apply::apply_stored(conn, who, record).await?;
+    if changed.is_some() && stored.decision.as_deref() == Some("remove_from_service") {
         set_cause(conn, stored.machine_id, Some(stored.id)).await?;
-    } else if let Some(cause_id) = cause(conn, stored.machine_id).await? {
-        let failed = get(conn, cause_id).await?;
-        let clears = failed.is_some_and(|f| {
-            stored.amends_id == Some(f.id) || stored.performed_on >= f.performed_on
-        });
-        if clears {
-            machines::set_status(conn, actor, stored.machine_id, None).await?;
-            set_cause(conn, stored.machine_id, None).await?;
-        }
     }
     if let Some(hours) = stored.hour_meter_h {
         let newer = machine.hour_meter_h.is_none_or(|h| hours > h)
@@ -176,25 +184,6 @@ async fn apply_to_machine(
         }
     }
     Ok(())
-}
-
-/// True when an inspection in force of the same machine, performed after `failed`, passed:
-/// a fail entered late for an earlier date does not undo a later pass.
-async fn passed_since(
-    conn: &mut SqliteConnection,
-    failed: &Inspection,
-) -> Result<bool, sqlx::Error> {
-    let later: i64 = sqlx::query_scalar(
-        "SELECT COUNT(*) FROM inspections i
-         WHERE i.machine_id = ? AND i.id <> ? AND i.result <> 'fail' AND i.performed_on > ?
-           AND NOT EXISTS (SELECT 1 FROM inspections a WHERE a.amends_id = i.id)",
-    )
-    .bind(failed.machine_id)
-    .bind(failed.id)
-    .bind(&failed.performed_on)
-    .fetch_one(conn)
-    .await?;
-    Ok(later > 0)
 }
 
 async fn set_cause(
@@ -226,8 +215,9 @@ pub async fn insert(
     let inserted = sqlx::query_scalar::<_, i64>(
         "INSERT INTO inspections (machine_id, kind, performed_on, hour_meter_h, inspector,
             result, items_json, deficiencies, corrective_action, client_token, amends_id,
-            created_at, created_by)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+            created_at, created_by, decision, decision_json,
+            signed_by_user_id)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(i.machine_id)
     .bind(&i.kind)
@@ -242,6 +232,9 @@ pub async fn insert(
     .bind(i.amends_id)
     .bind(super::now_rfc3339())
     .bind(actor)
+    .bind(&i.decision)
+    .bind(&i.decision_json)
+    .bind(i.signed_by_user_id)
     .fetch_one(&mut *conn)
     .await;
     let stored = records::finish(

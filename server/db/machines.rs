@@ -253,6 +253,17 @@ pub async fn update(
     {
         sites::check_usable(conn, "site_id", site_id).await?;
     }
+    if before.status == "out_of_service"
+        && f.status == "in_service"
+        && super::status::held_out_by_record(conn, id).await?
+    {
+        return Err(WriteError::conflict(
+            "status",
+            format!(
+                "a shop record took this machine out of service; after a passing retest a manager returns it with POST /api/v1/machines/{id}/return-to-service"
+            ),
+        ));
+    }
     let archived_at = archived_at_after(&before.archived_at, archived, super::now_rfc3339);
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);

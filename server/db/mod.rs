@@ -23,6 +23,9 @@ pub mod group_commit;
 pub mod inspections;
 pub mod procedures;
 pub mod records;
+pub mod service_return;
+pub mod status;
+pub mod status_apply;
 
 // reports
 pub mod reports;

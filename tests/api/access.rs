@@ -119,8 +119,11 @@ async fn a_technician_reads_the_registry_and_enters_shop_records_but_edits_nothi
         )
         .await;
     assert_eq!(status, StatusCode::FORBIDDEN);
+    // The due list is the shop's work list: technicians read it; the other reports and the
+    // settings stay the managers'.
+    assert_eq!(tech.get_json("/api/v1/reports/due").await.0, StatusCode::OK);
     assert_eq!(
-        tech.get_json("/api/v1/reports/due").await.0,
+        tech.get_json("/api/v1/reports/hazards").await.0,
         StatusCode::FORBIDDEN
     );
 
@@ -355,7 +358,11 @@ fn the_access_table_reads_as_the_roles_are_described() {
         (&get, "/machines/4/edit", Role::Manager),
         (&get, "/machines/4/cylinders/new", Role::Manager),
         (&get, "/reports/due", Role::Manager),
-        (&get, "/api/v1/reports/due", Role::Manager),
+        (&get, "/api/v1/reports/due", Role::Technician),
+        (&get, "/api/v1/reports/hazards", Role::Manager),
+        (&Method::PUT, "/api/v1/reports/settings", Role::Manager),
+        (&post, "/api/v1/machines/4/return-to-service", Role::Manager),
+        (&post, "/machines/4/return-to-service", Role::Manager),
         (&get, "/admin/audit", Role::Admin),
         (&post, "/admin/users", Role::Admin),
     ] {

@@ -40,7 +40,7 @@ async fn status_of(app: &TestApp, machine_id: i64) -> (String, Option<i64>, Valu
 }
 
 #[tokio::test]
-async fn a_failed_inspection_takes_the_machine_out_of_service_and_a_later_pass_clears_it() {
+async fn a_failed_inspection_takes_the_machine_out_of_service_and_no_later_pass_clears_it() {
     let app = TestApp::new().await;
     let id = machine(&app, "HV-201").await;
     let path = format!("/api/v1/machines/{id}/inspections");
@@ -62,7 +62,8 @@ async fn a_failed_inspection_takes_the_machine_out_of_service_and_a_later_pass_c
     assert_eq!(status, StatusCode::CREATED);
     assert_eq!(status_of(&app, id).await.0, "out_of_service");
 
-    // A later pass with deficiencies does.
+    // Nor does a later pass with deficiencies: only a manager's approval returns a machine
+    // (tests/api/service_status.rs).
     let (status, _) = app
         .post_json(
             &path,
@@ -71,9 +72,8 @@ async fn a_failed_inspection_takes_the_machine_out_of_service_and_a_later_pass_c
         .await;
     assert_eq!(status, StatusCode::CREATED);
     let (state, cause, m) = status_of(&app, id).await;
-    assert_eq!(state, "in_service");
-    assert_eq!(cause, None);
-    assert!(m["out_of_service_reason"].is_null());
+    assert_eq!(state, "out_of_service");
+    assert_eq!(cause, failed["id"].as_i64());
 
     let (_, list) = app.get_json(&path).await;
     assert_eq!(list["items"].as_array().map(Vec::len), Some(3));
@@ -82,7 +82,7 @@ async fn a_failed_inspection_takes_the_machine_out_of_service_and_a_later_pass_c
 }
 
 #[tokio::test]
-async fn correcting_a_fail_into_a_pass_keeps_both_records_and_returns_the_machine() {
+async fn correcting_a_fail_into_a_pass_keeps_both_records_and_never_returns_the_machine() {
     let app = TestApp::new().await;
     let id = machine(&app, "HV-202").await;
     let path = format!("/api/v1/machines/{id}/inspections");
@@ -94,7 +94,7 @@ async fn correcting_a_fail_into_a_pass_keeps_both_records_and_returns_the_machin
     let (status, fixed) = app.post_json(&path, &fix).await;
     assert_eq!(status, StatusCode::CREATED, "{fixed}");
     assert_eq!(fixed["amends"], failed["id"]);
-    assert_eq!(status_of(&app, id).await.0, "in_service");
+    assert_eq!(status_of(&app, id).await.0, "out_of_service");
     let (_, one) = app
         .get_json(&format!("/api/v1/inspections/{}", failed["id"]))
         .await;

@@ -24,6 +24,7 @@ mod sites;
 // shop
 mod drift_tests;
 mod inspections;
+mod service_status;
 mod shop_history;
 mod shop_pages;
 // reports

@@ -8,6 +8,7 @@ mod buckling;
 mod bypass;
 mod circuit;
 mod decay;
+mod decision;
 mod diagnosis;
 mod due;
 mod fluid;

@@ -58,8 +58,14 @@ pub fn operations() -> Vec<Op> {
         ))
         .ok(
             200,
-            "The out-of-service list.",
-            object(vec![("items", array(reference("OutOfService")))], &["items"]),
+            "The out-of-service list, and the machines a record restricted.",
+            object(
+                vec![
+                    ("items", array(reference("OutOfService"))),
+                    ("restricted", array(any())),
+                ],
+                &["items"],
+            ),
         ),
         within_days(as_of(status(fleet(Op::get(
             "/api/v1/reports/hazards",

@@ -27,13 +27,28 @@ pub struct OutOfService {
     pub change_id: Option<i64>,
     pub change_at: Option<String>,
     pub change_by: Option<String>,
+    /// The latest status change of the machine (`db::status`): the record kind and id that set
+    /// it (a drift test, decay test or inspection) and when.
+    pub status_record_kind: Option<String>,
+    pub status_record_id: Option<i64>,
+    pub status_change_at: Option<String>,
 }
 
 impl OutOfService {
     /// Which record put the machine out of service: `inspection`, `registry_change`, or
     /// `unknown` when neither is on file.
     pub fn record_type(&self) -> &'static str {
-        if self.inspection_id.is_some() {
+        let by_test = self.status_record_id.is_some()
+            && matches!(
+                self.status_record_kind.as_deref(),
+                Some("drift_test" | "decay_test")
+            );
+        if by_test {
+            match self.status_record_kind.as_deref() {
+                Some("drift_test") => "drift_test",
+                _ => "decay_test",
+            }
+        } else if self.inspection_id.is_some() {
             "inspection"
         } else if self.change_id.is_some() {
             "registry_change"
@@ -42,9 +57,12 @@ impl OutOfService {
         }
     }
 
-    /// The record's id (inspection id or audit row id).
+    /// The record's id (test, inspection or audit row id).
     pub fn record_id(&self) -> Option<i64> {
-        self.inspection_id.or(self.change_id)
+        match self.record_type() {
+            "drift_test" | "decay_test" => self.status_record_id,
+            _ => self.inspection_id.or(self.change_id),
+        }
     }
 }
 
@@ -62,8 +80,12 @@ pub async fn out_of_service(
             m.out_of_service_since AS since,
             i.id AS inspection_id, i.kind AS inspection_kind, i.performed_on AS inspection_on,
             i.inspector, i.result AS inspection_result, i.deficiencies,
-            a.id AS change_id, a.at AS change_at, a.actor AS change_by
+            a.id AS change_id, a.at AS change_at, a.actor AS change_by,
+            sc.record_kind AS status_record_kind, sc.record_id AS status_record_id,
+            sc.at AS status_change_at
          FROM machines m
+         LEFT JOIN status_changes sc ON sc.id = (SELECT MAX(x.id) FROM status_changes x
+            WHERE x.machine_id = m.id AND x.machine_status = 'out_of_service')
          LEFT JOIN sites s ON s.id = m.site_id
          LEFT JOIN inspections i ON i.id = m.out_of_service_inspection_id
          LEFT JOIN (
@@ -117,6 +139,53 @@ pub async fn counts(db: &Db, filter: &FleetFilter) -> Result<Vec<StatusCount>, s
     .bind(&filter.machine_kind)
     .bind(&filter.status)
     .bind(&filter.status)
+    .fetch_all(db)
+    .await
+}
+
+/// One machine restricted by a record: in service, with the restrictions to keep.
+#[derive(Clone, Debug, PartialEq, Serialize, sqlx::FromRow)]
+pub struct Restricted {
+    pub machine_id: i64,
+    pub unit_number: String,
+    pub site_id: Option<i64>,
+    pub site_name: Option<String>,
+    pub machine_kind: String,
+    /// The latest status change: why, when, which record, and the restrictions (JSON list).
+    pub reason: String,
+    pub since: String,
+    pub record_kind: String,
+    pub record_id: Option<i64>,
+    pub restrictions_json: String,
+}
+
+impl Restricted {
+    pub fn restrictions(&self) -> Vec<String> {
+        serde_json::from_str(&self.restrictions_json).unwrap_or_default()
+    }
+}
+
+/// Every machine in service whose latest status change restricts it, in the filter, longest
+/// restricted first.
+pub async fn restricted(db: &Db, filter: &FleetFilter) -> Result<Vec<Restricted>, sqlx::Error> {
+    sqlx::query_as::<_, Restricted>(
+        "SELECT m.id AS machine_id, m.unit_number, m.site_id, s.name AS site_name,
+            m.kind AS machine_kind, sc.reason, sc.at AS since, sc.record_kind, sc.record_id,
+            sc.restrictions_json
+         FROM machines m
+         LEFT JOIN sites s ON s.id = m.site_id
+         JOIN status_changes sc ON sc.id = (SELECT MAX(x.id) FROM status_changes x
+            WHERE x.machine_id = m.id)
+         WHERE m.archived_at IS NULL AND m.status = 'in_service'
+           AND sc.machine_status = 'restricted'
+           AND (? IS NULL OR m.site_id = ?)
+           AND (? IS NULL OR m.kind = ?)
+         ORDER BY sc.at, m.unit_number",
+    )
+    .bind(filter.site_id)
+    .bind(filter.site_id)
+    .bind(&filter.machine_kind)
+    .bind(&filter.machine_kind)
     .fetch_all(db)
     .await
 }

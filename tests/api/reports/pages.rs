@@ -127,10 +127,12 @@ fn unescape(page: &str) -> String {
 }
 
 #[tokio::test]
-async fn reports_are_for_managers() {
+async fn reports_are_for_managers_and_the_due_list_for_technicians_too() {
     let tech = TestApp::with_role(Role::Technician).await;
-    let (status, _) = tech.get_json("/api/v1/reports/due").await;
+    let (status, _) = tech.get_json("/api/v1/reports/out-of-service").await;
     assert_eq!(status, StatusCode::FORBIDDEN);
+    let (status, _) = tech.get_json("/api/v1/reports/due").await;
+    assert_eq!(status, StatusCode::OK, "the shop's work list");
     let manager = TestApp::with_role(Role::Manager).await;
     let (status, body) = manager.get_json("/api/v1/reports/due").await;
     assert_eq!(status, StatusCode::OK, "{body}");

@@ -4,6 +4,7 @@ use crate::app::AppState;
 use crate::error::AppError;
 use axum::Router;
 
+pub mod csv_safe;
 pub mod input;
 pub mod openapi; // proof
 
@@ -23,6 +24,7 @@ pub mod hoses;
 pub mod machine_draft;
 pub mod machines;
 pub mod paging;
+pub mod plausible;
 pub mod registry;
 pub mod sites;
 

@@ -29,6 +29,8 @@ pub struct Inspection {
     pub created_at: String,
     pub created_by: String,
     pub amended_by_id: Option<i64>,
+    /// The reading is of a new (replaced) hour meter, so it may be below the last one.
+    pub hour_meter_replaced: bool,
 }
 
 impl Inspection {
@@ -52,6 +54,8 @@ pub struct NewInspection {
     pub corrective_action: Option<String>,
     pub client_token: Option<String>,
     pub amends_id: Option<i64>,
+    /// The hour meter was replaced: the reading restarts the machine's meter.
+    pub hour_meter_replaced: bool,
 }
 
 impl Record for Inspection {
@@ -68,7 +72,7 @@ macro_rules! select_inspection {
     () => {
         "SELECT i.id, i.machine_id, i.kind, i.performed_on, i.hour_meter_h, i.inspector,
             i.result, i.items_json, i.deficiencies, i.corrective_action, i.client_token,
-            i.amends_id, i.created_at, i.created_by,
+            i.amends_id, i.created_at, i.created_by, i.hour_meter_replaced,
             (SELECT MIN(a.id) FROM inspections a WHERE a.amends_id = i.id) AS amended_by_id
          FROM inspections i "
     };
@@ -160,7 +164,7 @@ async fn apply_to_machine(
         }
     }
     if let Some(hours) = stored.hour_meter_h {
-        let newer = machine.hour_meter_h.is_none_or(|h| hours > h)
+        let newer = (stored.hour_meter_replaced || machine.hour_meter_h.is_none_or(|h| hours > h))
             && machine
                 .hour_meter_read_on
                 .as_deref()
@@ -226,8 +230,8 @@ pub async fn insert(
     let inserted = sqlx::query_scalar::<_, i64>(
         "INSERT INTO inspections (machine_id, kind, performed_on, hour_meter_h, inspector,
             result, items_json, deficiencies, corrective_action, client_token, amends_id,
-            created_at, created_by)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+            created_at, created_by, hour_meter_replaced)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(i.machine_id)
     .bind(&i.kind)
@@ -242,6 +246,7 @@ pub async fn insert(
     .bind(i.amends_id)
     .bind(super::now_rfc3339())
     .bind(actor)
+    .bind(i.hour_meter_replaced)
     .fetch_one(&mut *conn)
     .await;
     let stored = records::finish(

@@ -8,6 +8,7 @@ mod calc;
 mod calc_errors;
 mod calc_page;
 mod fuzz;
+mod hardening;
 mod health;
 mod helpers;
 // registry

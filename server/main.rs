@@ -133,6 +133,25 @@ fn init_tracing() {
     }
 }
 
+/// Opens a database that must already exist (`user`, `token`, `backup`): a mistyped path is
+/// an error, never a new empty database. `migrate`, `serve` and the seeders create one.
+fn existing(path: &Path) -> Result<(), String> {
+    if path.is_file() {
+        Ok(())
+    } else {
+        Err(format!(
+            "there is no database at {}; check --db (create one with `loadhold migrate --db {}`)",
+            path.display(),
+            path.display()
+        ))
+    }
+}
+
+async fn open_existing(path: &Path) -> Result<db::Db, String> {
+    existing(path)?;
+    open(path).await
+}
+
 async fn open(path: &Path) -> Result<db::Db, String> {
     db::open(path)
         .await
@@ -184,7 +203,7 @@ async fn run(command: Command) -> Result<(), String> {
                     db,
                 },
         } => {
-            let pool = open(&db).await?;
+            let pool = open_existing(&db).await?;
             let result =
                 loadhold::auth::cli::user_add(&pool, &name, &role, display_name.as_deref()).await;
             pool.close().await;
@@ -194,13 +213,14 @@ async fn run(command: Command) -> Result<(), String> {
         Command::Token {
             command: TokenCommand::Create { name, db, role },
         } => {
-            let pool = open(&db).await?;
+            let pool = open_existing(&db).await?;
             let result = loadhold::auth::cli::token_create(&pool, &name, role.as_deref()).await;
             pool.close().await;
             println!("{}", result?);
             Ok(())
         }
         Command::Backup { db, out } => {
+            existing(&db)?;
             let pool = db::connect(&db)
                 .await
                 .map_err(|e| format!("cannot open {}: {e}", db.display()))?;
@@ -236,11 +256,7 @@ async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result
     println!("Loadhold is serving at http://{local}/");
     tracing::info!(%local, "listening");
     let router = app::app(app::AppState::new(pool.clone()));
-    let router = router.into_make_service_with_connect_info::<SocketAddr>();
-    axum::serve(listener, router)
-        .with_graceful_shutdown(shutdown_signal())
-        .await
-        .map_err(|e| format!("server error: {e}"))?;
+    loadhold::serve::run(listener, router, shutdown_signal()).await;
     pool.close().await;
     tracing::info!("stopped");
     Ok(())

@@ -6,6 +6,7 @@ use axum::Router;
 
 pub mod csv_safe;
 pub mod input;
+pub mod json_strict;
 pub mod openapi; // proof
 
 // calc

@@ -222,7 +222,7 @@ pub async fn insert(
     i: &NewInspection,
 ) -> Result<Stored<Inspection>, WriteError> {
     let token = i.client_token.as_deref();
-    if let Some(found) = records::repeat_of(conn, &TABLE, token, i.machine_id).await? {
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, i.machine_id, i).await? {
         return Ok(found);
     }
     machines::check_usable(conn, "machine_id", i.machine_id).await?;
@@ -254,8 +254,7 @@ pub async fn insert(
         &TABLE,
         actor,
         inserted,
-        token,
-        i.machine_id,
+        (token, i.machine_id, i),
         before.as_ref(),
     )
     .await?;

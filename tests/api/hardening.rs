@@ -2,4 +2,5 @@
 //! module per concern; each test fails on the code before the fix. Invented test data.
 
 mod csv_cells;
+mod operations;
 mod plausibility;

@@ -86,6 +86,18 @@ enum UserCommand {
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
     },
+    /// Clear the lock that failed logins put on an account.
+    Unlock {
+        name: String,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
+    /// Disable a user: no more logins; their sessions end and the tokens they own stop.
+    Disable {
+        name: String,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
 }
 
 #[derive(Subcommand)]
@@ -206,6 +218,24 @@ async fn run(command: Command) -> Result<(), String> {
             let pool = open_existing(&db).await?;
             let result =
                 loadhold::auth::cli::user_add(&pool, &name, &role, display_name.as_deref()).await;
+            pool.close().await;
+            println!("{}", result?);
+            Ok(())
+        }
+        Command::User {
+            command: UserCommand::Unlock { name, db },
+        } => {
+            let pool = open_existing(&db).await?;
+            let result = loadhold::auth::cli::user_unlock(&pool, &name).await;
+            pool.close().await;
+            println!("{}", result?);
+            Ok(())
+        }
+        Command::User {
+            command: UserCommand::Disable { name, db },
+        } => {
+            let pool = open_existing(&db).await?;
+            let result = loadhold::auth::cli::user_disable(&pool, &name).await;
             pool.close().await;
             println!("{}", result?);
             Ok(())

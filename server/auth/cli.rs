@@ -70,3 +70,35 @@ pub async fn token_create(db: &Db, name: &str, role: Option<&str>) -> Result<Str
     );
     Ok(token)
 }
+
+async fn user_named(db: &Db, username: &str) -> Result<users::User, String> {
+    users::by_username(db, username)
+        .await
+        .map_err(|e| format!("cannot read users: {e}"))?
+        .ok_or_else(|| format!("there is no user {username}"))
+}
+
+/// `loadhold user unlock NAME`: clears the locks failed logins put on the account.
+pub async fn user_unlock(db: &Db, username: &str) -> Result<String, String> {
+    let user = user_named(db, username).await?;
+    users::unlock(db, &Actor::system(), user.id)
+        .await
+        .map_err(|e| format!("cannot unlock {username}: {e}"))?;
+    Ok(format!(
+        "unlocked {}: failed logins so far no longer count",
+        user.username
+    ))
+}
+
+/// `loadhold user disable NAME`: the user can no longer log in; their sessions end and the
+/// tokens they own stop working.
+pub async fn user_disable(db: &Db, username: &str) -> Result<String, String> {
+    let user = user_named(db, username).await?;
+    users::change(db, &Actor::system(), user.id, users::Change::Disable)
+        .await
+        .map_err(|e| format!("cannot disable {username}: {e}"))?;
+    Ok(format!(
+        "disabled {}: their sessions have ended and their tokens are refused",
+        user.username
+    ))
+}

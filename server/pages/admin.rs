@@ -5,7 +5,7 @@ use super::ctx::PageCtx;
 use super::view::FieldErrors;
 use crate::app::AppState;
 use crate::auth::users::{self, Change};
-use crate::auth::{Actor, Role, password, tokens};
+use crate::auth::{Actor, Role, password, throttle, tokens};
 use crate::db::write::WriteError;
 use crate::error::AppError;
 use askama::Template;
@@ -27,6 +27,7 @@ pub fn router() -> Router<AppState> {
         .route("/admin/users/{id}/disable", post(disable))
         .route("/admin/users/{id}/enable", post(enable))
         .route("/admin/users/{id}/password", post(new_password))
+        .route("/admin/users/{id}/unlock", post(unlock))
         .route("/admin/tokens", post(create_token))
         .route("/admin/tokens/{id}/revoke", post(revoke_token))
         .merge(audit::router())
@@ -43,6 +44,8 @@ pub struct UserRow {
     pub role: String,
     pub created_at: String,
     pub disabled_at: String,
+    /// The addresses failed logins locked this account at, comma-separated; empty when none.
+    pub locked_from: String,
     /// The admin looking at the page.
     pub is_self: bool,
 }
@@ -102,12 +105,22 @@ pub struct AdminPage {
 impl AdminPage {
     async fn load(state: &AppState, ctx: PageCtx, actor: &Actor) -> Result<AdminPage, AppError> {
         let users = users::list(&state.db).await?;
+        let mut locks = Vec::with_capacity(users.len());
+        for u in &users {
+            locks.push(
+                throttle::locked_addresses(&state.db, &u.username)
+                    .await?
+                    .join(", "),
+            );
+        }
         let tokens = tokens::list(&state.db).await?;
         Ok(AdminPage {
             ctx,
             users: users
                 .into_iter()
-                .map(|u| UserRow {
+                .zip(locks)
+                .map(|(u, locked_from)| UserRow {
+                    locked_from,
                     is_self: actor.user_id == Some(u.id),
                     id: u.id,
                     username: u.username,
@@ -158,6 +171,7 @@ fn notice(done: &str) -> &'static str {
         "disabled" => "User disabled; their sessions have ended.",
         "enabled" => "User enabled.",
         "revoked" => "Token revoked; it is refused from now on.",
+        "unlocked" => "Account unlocked; its failed logins no longer count.",
         _ => "",
     }
 }
@@ -308,6 +322,17 @@ async fn change_role(
 
 async fn disable(State(state): State<AppState>, actor: Actor, Path(id): Path<String>) -> Response {
     apply(&state, &actor, &id, Change::Disable, "disabled").await
+}
+
+/// Clears the locks failed logins put on a user.
+async fn unlock(State(state): State<AppState>, actor: Actor, Path(id): Path<String>) -> Response {
+    let Ok(id) = id.parse::<i64>() else {
+        return no_record();
+    };
+    match users::unlock(&state.db, &actor, id).await {
+        Ok(_) => Redirect::to("/admin?done=unlocked").into_response(),
+        Err(error) => refused(error),
+    }
 }
 
 async fn enable(State(state): State<AppState>, actor: Actor, Path(id): Path<String>) -> Response {

@@ -2,5 +2,6 @@
 //! module per concern; each test fails on the code before the fix. Invented test data.
 
 mod csv_cells;
+mod logins;
 mod operations;
 mod plausibility;

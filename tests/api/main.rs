@@ -1,8 +1,8 @@
 //! In-process API and page tests: one binary, a fresh migrated SQLite file per test.
 
-mod access; // accounts
-mod accounts; // accounts
-mod accounts_cli; // accounts
+pub mod access; // accounts
+pub mod accounts; // accounts
+pub mod accounts_cli; // accounts
 mod audit; // accounts
 mod calc;
 mod calc_errors;

@@ -11,7 +11,11 @@ ALTER TABLE inspections ADD COLUMN hour_meter_replaced INTEGER NOT NULL DEFAULT 
 -- role than the token. Tokens made before owners existed belong to the user who made them.
 ALTER TABLE api_tokens ADD COLUMN owner_id INTEGER REFERENCES users (id);
 ALTER TABLE api_tokens ADD COLUMN expires_at TEXT;
+-- Tokens made on the command line (no maker recorded) go to the first enabled admin; with no
+-- users at all they stay ownerless and work as before until revoked.
 UPDATE api_tokens SET owner_id = created_by WHERE owner_id IS NULL;
+UPDATE api_tokens SET owner_id = (SELECT id FROM users WHERE role = 'admin'
+    ORDER BY disabled_at IS NOT NULL, id LIMIT 1) WHERE owner_id IS NULL;
 
 -- An admin's unlock (or a password reset) of a throttled account: failed logins up to
 -- `after_attempt_id` no longer count against it.

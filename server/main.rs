@@ -107,9 +107,16 @@ enum TokenCommand {
         name: String,
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
-        /// technician (default), manager or admin.
+        /// technician (default), manager or admin; not above the owner's role.
         #[arg(long)]
         role: Option<String>,
+        /// The user the token acts for; it stops when they are disabled or demoted below
+        /// it (default: the service account `cli-tokens`).
+        #[arg(long)]
+        owner: Option<String>,
+        /// The token stops working at the start of this day (UTC), YYYY-MM-DD.
+        #[arg(long)]
+        expires: Option<String>,
     },
 }
 
@@ -241,10 +248,24 @@ async fn run(command: Command) -> Result<(), String> {
             Ok(())
         }
         Command::Token {
-            command: TokenCommand::Create { name, db, role },
+            command:
+                TokenCommand::Create {
+                    name,
+                    db,
+                    role,
+                    owner,
+                    expires,
+                },
         } => {
             let pool = open_existing(&db).await?;
-            let result = loadhold::auth::cli::token_create(&pool, &name, role.as_deref()).await;
+            let result = loadhold::auth::cli::token_create(
+                &pool,
+                &name,
+                role.as_deref(),
+                owner.as_deref(),
+                expires.as_deref(),
+            )
+            .await;
             pool.close().await;
             println!("{}", result?);
             Ok(())

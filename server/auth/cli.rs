@@ -58,15 +58,47 @@ pub async fn user_add(
     Ok(out)
 }
 
-/// `loadhold token create NAME [--role ROLE]`: returns the token, to print once.
-pub async fn token_create(db: &Db, name: &str, role: Option<&str>) -> Result<String, String> {
+/// An expiry date `YYYY-MM-DD` as the time the token stops: the start of that day, UTC.
+pub fn expiry(text: &str) -> Result<String, String> {
+    let day = crate::api::input::parse_date(text)
+        .ok_or_else(|| format!("write the expiry as a date YYYY-MM-DD, not \"{text}\""))?;
+    Ok(format!("{}T00:00:00Z", crate::api::draft::date_text(day)))
+}
+
+/// `loadhold token create NAME [--owner USER] [--role ROLE] [--expires YYYY-MM-DD]`: returns
+/// the token, to print once. Without `--owner` the token belongs to the service account
+/// `cli-tokens` (made on first use, cannot log in); the role defaults to technician and may
+/// not be above the owner's.
+pub async fn token_create(
+    db: &Db,
+    name: &str,
+    role: Option<&str>,
+    owner: Option<&str>,
+    expires: Option<&str>,
+) -> Result<String, String> {
     let role = parse_role(role.unwrap_or("technician"))?;
-    let (stored, token) = tokens::create(db, &Actor::system(), name, role)
-        .await
-        .map_err(|e| format!("cannot create token {name}: {e}"))?;
+    let expires = expires.map(expiry).transpose()?;
+    let owner_id = match owner {
+        Some(owner) => user_named(db, owner).await?.id,
+        None => tokens::cli_owner(db)
+            .await
+            .map_err(|e| format!("cannot make the {} account: {e}", tokens::CLI_OWNER))?,
+    };
+    let (stored, token) = tokens::create_owned(
+        db,
+        &Actor::system(),
+        name,
+        role,
+        owner_id,
+        expires.as_deref(),
+    )
+    .await
+    .map_err(|e| format!("cannot create token {name}: {e}"))?;
     eprintln!(
-        "token \"{}\" ({}) created; it is shown once, store it now:",
-        stored.name, stored.role
+        "token \"{}\" ({}, owned by {}) created; it is shown once, store it now:",
+        stored.name,
+        stored.role,
+        stored.owner.as_deref().unwrap_or("nobody")
     );
     Ok(token)
 }

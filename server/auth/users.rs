@@ -185,7 +185,8 @@ pub async fn create(
 /// Number of enabled admins other than `except`.
 async fn other_admins(conn: &mut SqliteConnection, except: i64) -> Result<i64, sqlx::Error> {
     sqlx::query_scalar(
-        "SELECT COUNT(*) FROM users WHERE role = 'admin' AND disabled_at IS NULL AND id <> ?",
+        "SELECT COUNT(*) FROM users WHERE role = 'admin' AND disabled_at IS NULL AND id <> ?
+           AND username <> 'cli-tokens'",
     )
     .bind(except)
     .fetch_one(conn)

@@ -59,6 +59,10 @@ pub struct TokenRow {
     pub created_at: String,
     pub last_used_at: String,
     pub revoked_at: String,
+    /// The user name of the account the token acts for.
+    pub owner: String,
+    /// When it stops working; empty: no expiry.
+    pub expires_at: String,
 }
 
 /// A secret shown on this page once and never again.
@@ -86,6 +90,9 @@ pub struct NewTokenForm {
     pub name: String,
     #[serde(default)]
     pub role: String,
+    /// `YYYY-MM-DD`: the token stops at the start of that day (UTC); empty: no expiry.
+    #[serde(default)]
+    pub expires: String,
 }
 
 #[derive(Template, WebTemplate)]
@@ -140,6 +147,8 @@ impl AdminPage {
                     created_at: t.created_at,
                     last_used_at: t.last_used_at.unwrap_or_default(),
                     revoked_at: t.revoked_at.unwrap_or_default(),
+                    owner: t.owner.unwrap_or_default(),
+                    expires_at: t.expires_at.unwrap_or_default(),
                 })
                 .collect(),
             roles: ROLES,
@@ -379,9 +388,20 @@ async fn create_token(
     actor: Actor,
     Form(form): Form<NewTokenForm>,
 ) -> Response {
-    let result = match role_field(&form.role) {
-        Ok(role) => tokens::create(&state.db, &actor, &form.name, role).await,
-        Err(error) => Err(error),
+    let expires = match form.expires.trim() {
+        "" => Ok(None),
+        day => crate::auth::cli::expiry(day)
+            .map(Some)
+            .map_err(|m| WriteError::invalid("expires", m)),
+    };
+    // a token made here acts for the admin who made it
+    let result = match (role_field(&form.role), expires, actor.user_id) {
+        (Ok(role), Ok(expires), Some(owner)) => {
+            let at = expires.as_deref();
+            tokens::create_owned(&state.db, &actor, &form.name, role, owner, at).await
+        }
+        (Err(error), _, _) | (_, Err(error), _) => Err(error),
+        (Ok(role), Ok(_), None) => tokens::create(&state.db, &actor, &form.name, role).await,
     };
     let mut page = match AdminPage::load(&state, ctx, &actor).await {
         Ok(page) => page,
@@ -397,7 +417,11 @@ async fn create_token(
             page.into_response()
         }
         Err(error) => {
-            let rename = [("name", "token_name"), ("role", "token_role")];
+            let rename = [
+                ("name", "token_name"),
+                ("role", "token_role"),
+                ("expires", "token_expires"),
+            ];
             if let Some(response) = beside_field(error, &mut page, &rename) {
                 return response;
             }

@@ -5,3 +5,4 @@ mod csv_cells;
 mod logins;
 mod operations;
 mod plausibility;
+mod tokens;

@@ -12,3 +12,4 @@ pub mod db;
 pub mod error;
 pub mod pages;
 pub mod seed;
+pub mod serve;

@@ -86,6 +86,18 @@ enum UserCommand {
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
     },
+    /// Clear the lock that failed logins put on an account.
+    Unlock {
+        name: String,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
+    /// Disable a user: no more logins; their sessions end and the tokens they own stop.
+    Disable {
+        name: String,
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+    },
 }
 
 #[derive(Subcommand)]
@@ -95,9 +107,16 @@ enum TokenCommand {
         name: String,
         #[arg(long, env = "LOADHOLD_DB")]
         db: PathBuf,
-        /// technician (default), manager or admin.
+        /// technician (default), manager or admin; not above the owner's role.
         #[arg(long)]
         role: Option<String>,
+        /// The user the token acts for; it stops when they are disabled or demoted below
+        /// it (default: the service account `cli-tokens`).
+        #[arg(long)]
+        owner: Option<String>,
+        /// The token stops working at the start of this day (UTC), YYYY-MM-DD.
+        #[arg(long)]
+        expires: Option<String>,
     },
 }
 
@@ -131,6 +150,25 @@ fn init_tracing() {
     } else {
         builder.init();
     }
+}
+
+/// Opens a database that must already exist (`user`, `token`, `backup`): a mistyped path is
+/// an error, never a new empty database. `migrate`, `serve` and the seeders create one.
+fn existing(path: &Path) -> Result<(), String> {
+    if path.is_file() {
+        Ok(())
+    } else {
+        Err(format!(
+            "there is no database at {}; check --db (create one with `loadhold migrate --db {}`)",
+            path.display(),
+            path.display()
+        ))
+    }
+}
+
+async fn open_existing(path: &Path) -> Result<db::Db, String> {
+    existing(path)?;
+    open(path).await
 }
 
 async fn open(path: &Path) -> Result<db::Db, String> {
@@ -184,23 +222,56 @@ async fn run(command: Command) -> Result<(), String> {
                     db,
                 },
         } => {
-            let pool = open(&db).await?;
+            let pool = open_existing(&db).await?;
             let result =
                 loadhold::auth::cli::user_add(&pool, &name, &role, display_name.as_deref()).await;
             pool.close().await;
             println!("{}", result?);
             Ok(())
         }
-        Command::Token {
-            command: TokenCommand::Create { name, db, role },
+        Command::User {
+            command: UserCommand::Unlock { name, db },
         } => {
-            let pool = open(&db).await?;
-            let result = loadhold::auth::cli::token_create(&pool, &name, role.as_deref()).await;
+            let pool = open_existing(&db).await?;
+            let result = loadhold::auth::cli::user_unlock(&pool, &name).await;
+            pool.close().await;
+            println!("{}", result?);
+            Ok(())
+        }
+        Command::User {
+            command: UserCommand::Disable { name, db },
+        } => {
+            let pool = open_existing(&db).await?;
+            let result = loadhold::auth::cli::user_disable(&pool, &name).await;
+            pool.close().await;
+            println!("{}", result?);
+            Ok(())
+        }
+        Command::Token {
+            command:
+                TokenCommand::Create {
+                    name,
+                    db,
+                    role,
+                    owner,
+                    expires,
+                },
+        } => {
+            let pool = open_existing(&db).await?;
+            let result = loadhold::auth::cli::token_create(
+                &pool,
+                &name,
+                role.as_deref(),
+                owner.as_deref(),
+                expires.as_deref(),
+            )
+            .await;
             pool.close().await;
             println!("{}", result?);
             Ok(())
         }
         Command::Backup { db, out } => {
+            existing(&db)?;
             let pool = db::connect(&db)
                 .await
                 .map_err(|e| format!("cannot open {}: {e}", db.display()))?;
@@ -236,11 +307,7 @@ async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result
     println!("Loadhold is serving at http://{local}/");
     tracing::info!(%local, "listening");
     let router = app::app(app::AppState::new(pool.clone()));
-    let router = router.into_make_service_with_connect_info::<SocketAddr>();
-    axum::serve(listener, router)
-        .with_graceful_shutdown(shutdown_signal())
-        .await
-        .map_err(|e| format!("server error: {e}"))?;
+    loadhold::serve::run(listener, router, shutdown_signal()).await;
     pool.close().await;
     tracing::info!("stopped");
     Ok(())

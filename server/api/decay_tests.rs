@@ -56,7 +56,8 @@ pub fn body_fields() -> Vec<&'static str> {
 
 fn check_readings(f: &Fields, p: &mut Problems) {
     p.take(f.choice("pressurised_end", &["cap", "rod"]));
-    p.take(f.quantity("duration", D::Time));
+    p.take(super::draft::required_positive(f, "duration", D::Time));
+    p.take(super::plausible::limit(f, "pressure", D::Pressure));
     for name in ["pressure_start", "pressure_end"] {
         p.take(f.gauge_pressure(name));
     }

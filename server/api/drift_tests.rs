@@ -63,7 +63,8 @@ pub fn body_fields() -> Vec<&'static str> {
 /// Checks the form of each reading so that every bad field is named at once (the core's
 /// parser stops at the first).
 fn check_readings(f: &Fields, problems: &mut Problems) {
-    problems.take(f.quantity("duration", D::Time));
+    problems.take(super::draft::required_positive(f, "duration", D::Time));
+    problems.take(super::plausible::limit(f, "distance", D::Length));
     problems.take(f.opt_signed_quantity("drift", D::Length));
     for name in ["start_position", "end_position", "position"] {
         problems.take(f.opt_quantity(name, D::Length));

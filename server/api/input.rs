@@ -3,6 +3,7 @@
 //! Quantities must carry their unit: `"4 in"` or `{"value": 4, "unit": "in"}`. A bare number
 //! is refused: in a safety tool a unit is never guessed.
 
+use super::json_strict::StrictError;
 use crate::calc::quantity::{self, Dimension, UnitSystem};
 use crate::error::AppError;
 use axum::body::Bytes;
@@ -49,8 +50,18 @@ impl<S: Send + Sync> FromRequest<S> for Body {
                 "the request body could not be read (too large?)",
             )
         })?;
-        let value: Value = serde_json::from_slice(&bytes).map_err(|e| {
-            AppError::bad_request("invalid_json", format!("the body is not valid JSON: {e}"))
+        let value = super::json_strict::parse(&bytes).map_err(|e| match e {
+            StrictError::Duplicate(key) => AppError::Invalid {
+                status: axum::http::StatusCode::BAD_REQUEST,
+                code: "duplicate_key",
+                field: Some(key.clone()),
+                message: format!(
+                    "the field \"{key}\" appears more than once in one object; send it once"
+                ),
+            },
+            StrictError::Syntax(e) => {
+                AppError::bad_request("invalid_json", format!("the body is not valid JSON: {e}"))
+            }
         })?;
         match value {
             Value::Object(map) => Ok(Body(map)),

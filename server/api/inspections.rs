@@ -5,6 +5,7 @@
 use super::draft::{Problems, first};
 use super::input::{Body, Fields};
 use super::paging::path_id;
+use super::plausible;
 use super::shop_answer::{all_items, stored_answer, stored_json};
 use super::shop_input;
 use crate::app::AppState;
@@ -53,6 +54,7 @@ const FIELDS: &[&str] = &[
     "corrective_action",
     "client_token",
     "amends",
+    "hour_meter_replaced",
 ];
 
 /// Reads `items`: a list (at most 50) of `{"item", "outcome", "leakage_class", "note"}`.
@@ -125,7 +127,17 @@ pub fn prepare(
             })
         }),
     );
-    let hour_meter = p.take(f.opt_number_min("hour_meter", 0.0)).flatten();
+    let hour_meter = p.take(plausible::hours(&f, "hour_meter")).flatten();
+    let replaced = p
+        .take(f.opt_bool("hour_meter_replaced"))
+        .flatten()
+        .unwrap_or(false);
+    if let Some(day) = &performed_on {
+        p.take(plausible::record_date(machine, "performed_on", day));
+        if let Some(h) = hour_meter {
+            p.take(plausible::hour_meter(machine, day, h, replaced));
+        }
+    }
     let inspector = p.take(shop_input::signer(&f, "inspector", user));
     let result = p.take(f.choice("result", &RESULTS));
     let items = p.take(items(&f));
@@ -180,6 +192,7 @@ pub fn prepare(
         decision: ruling.decision.as_str().to_string(),
         decision_json: super::decision_answer::stored(&ruling),
         signed_by_user_id: None,
+        hour_meter_replaced: replaced && hour_meter.is_some(),
     })
 }
 
@@ -205,6 +218,7 @@ pub fn to_json(i: &Inspection) -> Value {
         "kind": i.kind,
         "performed_on": i.performed_on,
         "hour_meter": i.hour_meter_h,
+        "hour_meter_replaced": i.hour_meter_replaced,
         "inspector": i.inspector,
         "result": i.result,
         "items": stored_json(&i.items_json),

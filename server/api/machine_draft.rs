@@ -102,7 +102,7 @@ pub fn read(
         m.relief_pressure_pa = v;
     }
     if touched(map, "hour_meter")
-        && let Some(v) = p.take(f.opt_number_min("hour_meter", 0.0))
+        && let Some(v) = p.take(super::plausible::hours(&f, "hour_meter"))
     {
         if v != m.hour_meter_h && !touched(map, "hour_meter_read_on") {
             m.hour_meter_read_on = v.map(|_| super::draft::date_text(today()));

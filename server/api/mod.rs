@@ -4,7 +4,9 @@ use crate::app::AppState;
 use crate::error::AppError;
 use axum::Router;
 
+pub mod csv_safe;
 pub mod input;
+pub mod json_strict;
 pub mod openapi; // proof
 
 // calc
@@ -25,6 +27,7 @@ pub mod hoses;
 pub mod machine_draft;
 pub mod machines;
 pub mod paging;
+pub mod plausible;
 pub mod registry;
 pub mod sites;
 

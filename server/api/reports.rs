@@ -134,7 +134,8 @@ pub async fn due_query(state: &AppState, params: &Params) -> ApiResult<DueQuery>
     })
 }
 
-/// A CSV download: RFC 4180 (comma, CRLF line ends, quotes where needed), header row first.
+/// A CSV download: RFC 4180 (comma, CRLF line ends, quotes where needed), header row first;
+/// cells that a spreadsheet would read as a formula start with an apostrophe (`csv_safe`).
 pub fn csv_response(name: &str, as_of: Date, table: &Table) -> ApiResult<Response> {
     let mut writer = csv::WriterBuilder::new()
         .terminator(csv::Terminator::CRLF)
@@ -143,7 +144,9 @@ pub fn csv_response(name: &str, as_of: Date, table: &Table) -> ApiResult<Respons
         .write_record(&table.header)
         .map_err(AppError::internal)?;
     for row in &table.rows {
-        writer.write_record(row).map_err(AppError::internal)?;
+        // every text cell, whoever typed it, is neutralised for spreadsheets
+        let cells = row.iter().map(|c| super::csv_safe::cell(c).into_owned());
+        writer.write_record(cells).map_err(AppError::internal)?;
     }
     let bytes = writer.into_inner().map_err(AppError::internal)?;
     let disposition = format!("attachment; filename=\"loadhold-{name}-{as_of}.csv\"");

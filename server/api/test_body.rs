@@ -55,6 +55,9 @@ pub async fn read_head(
 ) -> Result<Head, Vec<AppError>> {
     let mut problems = Problems::default();
     let common = shop_input::common(f, "tested_at", "technician", user, &mut problems);
+    if let Some(at) = &common.at {
+        problems.take(super::plausible::record_date(machine, "tested_at", at));
+    }
     let procedure_id = problems.take(super::draft::id(f, "procedure_id")).flatten();
     check_readings(f, &mut problems);
     let procedure = match procedure_id {

@@ -58,15 +58,79 @@ pub async fn user_add(
     Ok(out)
 }
 
-/// `loadhold token create NAME [--role ROLE]`: returns the token, to print once.
-pub async fn token_create(db: &Db, name: &str, role: Option<&str>) -> Result<String, String> {
+/// An expiry date `YYYY-MM-DD` as the time the token stops: the start of that day, UTC.
+pub fn expiry(text: &str) -> Result<String, String> {
+    let day = crate::api::input::parse_date(text)
+        .ok_or_else(|| format!("write the expiry as a date YYYY-MM-DD, not \"{text}\""))?;
+    Ok(format!("{}T00:00:00Z", crate::api::draft::date_text(day)))
+}
+
+/// `loadhold token create NAME [--owner USER] [--role ROLE] [--expires YYYY-MM-DD]`: returns
+/// the token, to print once. Without `--owner` the token belongs to the service account
+/// `cli-tokens` (made on first use, cannot log in); the role defaults to technician and may
+/// not be above the owner's.
+pub async fn token_create(
+    db: &Db,
+    name: &str,
+    role: Option<&str>,
+    owner: Option<&str>,
+    expires: Option<&str>,
+) -> Result<String, String> {
     let role = parse_role(role.unwrap_or("technician"))?;
-    let (stored, token) = tokens::create(db, &Actor::system(), name, role)
-        .await
-        .map_err(|e| format!("cannot create token {name}: {e}"))?;
+    let expires = expires.map(expiry).transpose()?;
+    let owner_id = match owner {
+        Some(owner) => user_named(db, owner).await?.id,
+        None => tokens::cli_owner(db)
+            .await
+            .map_err(|e| format!("cannot make the {} account: {e}", tokens::CLI_OWNER))?,
+    };
+    let (stored, token) = tokens::create_owned(
+        db,
+        &Actor::system(),
+        name,
+        role,
+        owner_id,
+        expires.as_deref(),
+    )
+    .await
+    .map_err(|e| format!("cannot create token {name}: {e}"))?;
     eprintln!(
-        "token \"{}\" ({}) created; it is shown once, store it now:",
-        stored.name, stored.role
+        "token \"{}\" ({}, owned by {}) created; it is shown once, store it now:",
+        stored.name,
+        stored.role,
+        stored.owner.as_deref().unwrap_or("nobody")
     );
     Ok(token)
+}
+
+async fn user_named(db: &Db, username: &str) -> Result<users::User, String> {
+    users::by_username(db, username)
+        .await
+        .map_err(|e| format!("cannot read users: {e}"))?
+        .ok_or_else(|| format!("there is no user {username}"))
+}
+
+/// `loadhold user unlock NAME`: clears the locks failed logins put on the account.
+pub async fn user_unlock(db: &Db, username: &str) -> Result<String, String> {
+    let user = user_named(db, username).await?;
+    users::unlock(db, &Actor::system(), user.id)
+        .await
+        .map_err(|e| format!("cannot unlock {username}: {e}"))?;
+    Ok(format!(
+        "unlocked {}: failed logins so far no longer count",
+        user.username
+    ))
+}
+
+/// `loadhold user disable NAME`: the user can no longer log in; their sessions end and the
+/// tokens they own stop working.
+pub async fn user_disable(db: &Db, username: &str) -> Result<String, String> {
+    let user = user_named(db, username).await?;
+    users::change(db, &Actor::system(), user.id, users::Change::Disable)
+        .await
+        .map_err(|e| format!("cannot disable {username}: {e}"))?;
+    Ok(format!(
+        "disabled {}: their sessions have ended and their tokens are refused",
+        user.username
+    ))
 }

@@ -5,7 +5,8 @@ use super::password;
 use super::sessions::{self, NewSession, SessionError};
 use super::throttle::{self, Blocked};
 use super::users::{self, User};
-use crate::db::Db;
+use crate::db::{Db, audit};
+use serde_json::json;
 
 /// Why a login was refused.
 #[derive(Debug, thiserror::Error)]
@@ -27,6 +28,10 @@ impl From<sqlx::Error> for LoginError {
 }
 
 /// Tries a login for `username` from `address`; on success returns the user and a new session.
+/// A locked account and address pair is refused at once; otherwise the try waits as long as
+/// the recent failures there ask (`throttle::Standing::delay`) before the password is checked.
+/// The attempt and its audit row (`login` or `login_failed`, with the address) are written
+/// together.
 pub async fn attempt(
     db: &Db,
     username: &str,
@@ -34,9 +39,11 @@ pub async fn attempt(
     address: &str,
 ) -> Result<(User, NewSession), LoginError> {
     let username = username.trim().to_ascii_lowercase();
-    if let Some(blocked) = throttle::check(db, &username, address).await? {
-        return Err(LoginError::Throttled(blocked));
+    let standing = throttle::standing(db, &username, address).await?;
+    if standing.locked() {
+        return Err(LoginError::Throttled(Blocked::Account));
     }
+    tokio::time::sleep(standing.delay()).await;
     let found = users::credentials(db, &username).await?;
     let user = match found {
         Some((user, hash)) => verify(password, hash).await.then_some(user),
@@ -46,7 +53,38 @@ pub async fn attempt(
             None
         }
     };
-    throttle::record(db, &username, address, user.is_some()).await?;
+    {
+        let (_write, mut tx) = crate::db::begin_write(db).await?;
+        let id = throttle::record(&mut tx, &username, address, user.is_some()).await?;
+        let detail = json!({"username": username, "address": address});
+        match &user {
+            Some(u) => {
+                audit::record(
+                    &mut tx,
+                    &u.display_name,
+                    "login",
+                    "user",
+                    u.id,
+                    None,
+                    Some(&detail),
+                )
+                .await?
+            }
+            None => {
+                audit::record(
+                    &mut tx,
+                    "anonymous",
+                    "login_failed",
+                    "login_attempt",
+                    id,
+                    None,
+                    Some(&detail),
+                )
+                .await?
+            }
+        }
+        tx.commit().await?;
+    }
     let user = user.ok_or(LoginError::Refused)?;
     let session = sessions::create(db, user.id).await?;
     Ok((user, session))

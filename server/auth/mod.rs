@@ -14,6 +14,7 @@ pub mod cli;
 pub mod clock;
 pub mod cookie;
 pub mod demo;
+pub mod events;
 pub mod login;
 pub mod middleware;
 pub mod password;

@@ -1,5 +1,7 @@
 //! API bearer tokens in storage (no HTTP here): shown once when made, kept as their SHA-256,
-//! revocable. A token acts with its own role. Tokens are revoked, never deleted.
+//! revocable. A token acts with its own role, for an owner account: it stops when the owner is
+//! disabled or holds a lower role than the token, and at its expiry if it has one. Tokens are
+//! revoked, never deleted.
 
 use super::{Actor, Role, clock, secret};
 use crate::db::write::{WriteError, snapshot};
@@ -25,6 +27,12 @@ pub struct ApiToken {
     pub created_at: String,
     pub last_used_at: Option<String>,
     pub revoked_at: Option<String>,
+    /// The account the token acts for.
+    pub owner_id: Option<i64>,
+    /// The owner's user name.
+    pub owner: Option<String>,
+    /// When the token stops working (RFC 3339 UTC); `None`: no expiry.
+    pub expires_at: Option<String>,
 }
 
 impl ApiToken {
@@ -42,8 +50,20 @@ impl ApiToken {
     }
 }
 
-const SELECT_ONE: &str = "SELECT id, name, token_prefix, role, created_by, created_at,
-    last_used_at, revoked_at FROM api_tokens WHERE id = ?";
+macro_rules! select_token {
+    () => {
+        "SELECT t.id, t.name, t.token_prefix, t.role, t.created_by, t.created_at,
+            t.last_used_at, t.revoked_at, t.owner_id, o.username AS owner, t.expires_at
+         FROM api_tokens t LEFT JOIN users o ON o.id = t.owner_id "
+    };
+}
+
+const SELECT_ONE: &str = concat!(select_token!(), "WHERE t.id = ?");
+
+/// The service account that owns tokens made on the command line without `--owner`: it holds
+/// the admin role and cannot log in (its password hash matches no password). Disabling it
+/// stops every such token.
+pub const CLI_OWNER: &str = "cli-tokens";
 
 async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<ApiToken>, sqlx::Error> {
     sqlx::query_as::<_, ApiToken>(SELECT_ONE)
@@ -54,21 +74,53 @@ async fn get(conn: &mut SqliteConnection, id: i64) -> Result<Option<ApiToken>, s
 
 /// Every token, newest first.
 pub async fn list(db: &Db) -> Result<Vec<ApiToken>, sqlx::Error> {
-    sqlx::query_as::<_, ApiToken>(
-        "SELECT id, name, token_prefix, role, created_by, created_at, last_used_at, revoked_at
-         FROM api_tokens ORDER BY id DESC",
-    )
-    .fetch_all(db)
-    .await
+    sqlx::query_as::<_, ApiToken>(concat!(select_token!(), "ORDER BY t.id DESC"))
+        .fetch_all(db)
+        .await
 }
 
-/// Makes a token named `name` with `role`; returns the stored record and the token itself,
-/// which is not kept and must be shown to the person once.
+/// Makes a token named `name` with `role`, owned by the acting user (the command line's
+/// service account [`CLI_OWNER`] when no user acts); see [`create_owned`].
 pub async fn create(
     db: &Db,
     actor: &Actor,
     name: &str,
     role: Role,
+) -> Result<(ApiToken, String), WriteError> {
+    let owner = match actor.user_id {
+        Some(id) => id,
+        None => cli_owner(db).await?,
+    };
+    create_owned(db, actor, name, role, owner, None).await
+}
+
+/// The id of the [`CLI_OWNER`] account, made on first use.
+pub async fn cli_owner(db: &Db) -> Result<i64, WriteError> {
+    if let Some(user) = super::users::by_username(db, CLI_OWNER).await? {
+        return Ok(user.id);
+    }
+    let user = super::users::create_hashed(
+        db,
+        &Actor::system(),
+        CLI_OWNER,
+        "command-line tokens",
+        Role::Admin,
+        "!no-login",
+    )
+    .await?;
+    Ok(user.id)
+}
+
+/// Makes a token named `name` with `role` for the account `owner` (whose role must be at
+/// least `role`), working until `expires_at` (RFC 3339) if given; returns the stored record
+/// and the token itself, which is not kept and must be shown to the person once.
+pub async fn create_owned(
+    db: &Db,
+    actor: &Actor,
+    name: &str,
+    role: Role,
+    owner: i64,
+    expires_at: Option<&str>,
 ) -> Result<(ApiToken, String), WriteError> {
     let name = name.trim();
     if name.is_empty() || name.chars().count() > 80 {
@@ -77,13 +129,43 @@ pub async fn create(
             "give the token a name of 1 to 80 characters",
         ));
     }
+    let owner_user = super::users::find(db, owner)
+        .await?
+        .ok_or_else(|| WriteError::invalid("owner", "there is no such user"))?;
+    if owner_user.disabled_at.is_some() {
+        return Err(WriteError::invalid(
+            "owner",
+            format!(
+                "{} is disabled; a token needs an enabled owner",
+                owner_user.username
+            ),
+        ));
+    }
+    if role > owner_user.role() {
+        return Err(WriteError::invalid(
+            "role",
+            format!(
+                "a token's role cannot be above its owner's: {} is a {}",
+                owner_user.username, owner_user.role
+            ),
+        ));
+    }
+    if let Some(at) = expires_at
+        && clock::older_than(at, Duration::ZERO)
+    {
+        return Err(WriteError::invalid(
+            "expires",
+            "the expiry must be in the future",
+        ));
+    }
     let random =
         secret::random_hex(32).map_err(|e| WriteError::Db(sqlx::Error::Protocol(e.to_string())))?;
     let token = format!("{PREFIX}{random}");
     let (_write, mut tx) = crate::db::begin_write(db).await?;
     let id: i64 = sqlx::query_scalar(
-        "INSERT INTO api_tokens (name, token_hash, token_prefix, role, created_by, created_at)
-         VALUES (?, ?, ?, ?, ?, ?) RETURNING id",
+        "INSERT INTO api_tokens (name, token_hash, token_prefix, role, created_by, created_at,
+            owner_id, expires_at)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(name)
     .bind(secret::token_hash(&token))
@@ -91,6 +173,8 @@ pub async fn create(
     .bind(role.as_str())
     .bind(actor.user_id)
     .bind(clock::now())
+    .bind(owner)
+    .bind(expires_at)
     .fetch_one(&mut *tx)
     .await?;
     let stored = get(&mut tx, id)
@@ -143,16 +227,23 @@ pub async fn revoke(db: &Db, actor: &Actor, id: i64) -> Result<ApiToken, WriteEr
     Ok(after)
 }
 
-/// The live (not revoked) token with this value, if any.
+/// The live token with this value, if any: not revoked, not expired, its owner enabled and
+/// holding at least the token's role. Its first use each day writes an audit row `use`.
 pub async fn lookup(db: &Db, token: &str) -> Result<Option<ApiToken>, sqlx::Error> {
     if !token.starts_with(PREFIX) {
         return Ok(None);
     }
-    let found = sqlx::query_as::<_, ApiToken>(
-        "SELECT id, name, token_prefix, role, created_by, created_at, last_used_at, revoked_at
-         FROM api_tokens WHERE token_hash = ? AND revoked_at IS NULL",
-    )
+    let now = clock::now();
+    let found = sqlx::query_as::<_, ApiToken>(concat!(
+        select_token!(),
+        "WHERE t.token_hash = ? AND t.revoked_at IS NULL
+           AND (t.expires_at IS NULL OR t.expires_at > ?)
+           AND (t.owner_id IS NULL OR (o.disabled_at IS NULL AND
+               (CASE o.role WHEN 'admin' THEN 3 WHEN 'manager' THEN 2 ELSE 1 END) >=
+               (CASE t.role WHEN 'admin' THEN 3 WHEN 'manager' THEN 2 ELSE 1 END)))"
+    ))
     .bind(secret::token_hash(token))
+    .bind(&now)
     .fetch_optional(db)
     .await?;
     if let Some(found) = &found {
@@ -162,10 +253,19 @@ pub async fn lookup(db: &Db, token: &str) -> Result<Option<ApiToken>, sqlx::Erro
         };
         if stale {
             sqlx::query("UPDATE api_tokens SET last_used_at = ? WHERE id = ?")
-                .bind(clock::now())
+                .bind(&now)
                 .bind(found.id)
                 .execute(db)
                 .await?;
+        }
+        let first_today = found
+            .last_used_at
+            .as_deref()
+            .is_none_or(|at| at.get(..10) != now.get(..10));
+        if first_today {
+            let detail = serde_json::json!({"token": found.name, "owner": found.owner});
+            let actor = found.actor().name;
+            super::events::note(db, &actor, "use", ("api_token", found.id), &detail).await?;
         }
     }
     Ok(found)

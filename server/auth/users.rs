@@ -2,7 +2,7 @@
 //! same transaction. Users are never deleted, only disabled.
 
 use super::password::{self, PasswordError};
-use super::{Actor, Role};
+use super::{Actor, Role, throttle};
 use crate::db::write::{WriteError, is_unique_violation, snapshot};
 use crate::db::{Db, audit, now_rfc3339};
 use serde::Serialize;
@@ -185,7 +185,8 @@ pub async fn create(
 /// Number of enabled admins other than `except`.
 async fn other_admins(conn: &mut SqliteConnection, except: i64) -> Result<i64, sqlx::Error> {
     sqlx::query_scalar(
-        "SELECT COUNT(*) FROM users WHERE role = 'admin' AND disabled_at IS NULL AND id <> ?",
+        "SELECT COUNT(*) FROM users WHERE role = 'admin' AND disabled_at IS NULL AND id <> ?
+           AND username <> 'cli-tokens'",
     )
     .bind(except)
     .fetch_one(conn)
@@ -291,6 +292,8 @@ pub async fn set_password(
         .bind(id)
         .execute(&mut *tx)
         .await?;
+    // a new password ends any lock that failed logins put on the account
+    throttle::unlock(&mut tx, &before.username, &actor.name).await?;
     let after = get(&mut tx, id)
         .await?
         .ok_or(WriteError::NotFound("user"))?;
@@ -307,4 +310,37 @@ pub async fn set_password(
     .await?;
     tx.commit().await?;
     Ok(after)
+}
+
+/// Clears the login locks of a user (every failed login so far stops counting), with an audit
+/// row `unlock` that names the addresses it was locked from.
+pub async fn unlock(db: &Db, actor: &Actor, id: i64) -> Result<User, WriteError> {
+    let user = find(db, id).await?.ok_or(WriteError::NotFound("user"))?;
+    let addresses = throttle::locked_addresses(db, &user.username).await?;
+    let (_write, mut tx) = crate::db::begin_write(db).await?;
+    throttle::unlock(&mut tx, &user.username, &actor.name).await?;
+    let detail = serde_json::json!({"username": user.username, "locked_from": addresses});
+    audit::record(
+        &mut tx,
+        &actor.name,
+        "unlock",
+        "user",
+        id,
+        None,
+        Some(&detail),
+    )
+    .await?;
+    tx.commit().await?;
+    Ok(user)
+}
+
+/// One user by user name (as stored: lower case).
+pub async fn by_username(db: &Db, username: &str) -> Result<Option<User>, sqlx::Error> {
+    sqlx::query_as::<_, User>(
+        "SELECT id, username, display_name, role, created_at, updated_at, disabled_at
+         FROM users WHERE username = ?",
+    )
+    .bind(username.trim().to_ascii_lowercase())
+    .fetch_optional(db)
+    .await
 }

@@ -306,6 +306,16 @@ pub async fn check_testable(conn: &mut SqliteConnection, id: i64) -> Result<(), 
             "cylinder",
             "this cylinder is archived; restore it before recording tests",
         )),
-        Some(_) => Ok(()),
+        // a cylinder of an archived machine is out of the fleet like the machine itself
+        Some(c) => match machines::get(conn, c.machine_id).await? {
+            Some(m) if m.archived_at.is_some() => Err(WriteError::conflict(
+                "cylinder",
+                format!(
+                    "machine {} is archived; restore it before recording tests on its cylinders",
+                    m.unit_number
+                ),
+            )),
+            _ => Ok(()),
+        },
     }
 }

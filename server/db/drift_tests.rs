@@ -181,7 +181,7 @@ pub async fn insert(
     t: &NewDriftTest,
 ) -> Result<Stored<DriftTest>, WriteError> {
     let token = t.client_token.as_deref();
-    if let Some(found) = records::repeat_of(conn, &TABLE, token, t.cylinder_id).await? {
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, t.cylinder_id, t).await? {
         return Ok(found);
     }
     cylinders::check_testable(conn, t.cylinder_id).await?;
@@ -243,8 +243,7 @@ pub async fn insert(
         &TABLE,
         actor,
         inserted,
-        token,
-        t.cylinder_id,
+        (token, t.cylinder_id, t),
         before.as_ref(),
     )
     .await?;

@@ -36,6 +36,8 @@ pub struct Inspection {
     /// The account that signed the record (`created_by` is its display name).
     pub signed_by_user_id: Option<i64>,
     pub amended_by_id: Option<i64>,
+    /// The reading is of a new (replaced) hour meter, so it may be below the last one.
+    pub hour_meter_replaced: bool,
 }
 
 impl Inspection {
@@ -64,6 +66,8 @@ pub struct NewInspection {
     pub decision_json: String,
     /// The signing account, set by the API from the logged-in user.
     pub signed_by_user_id: Option<i64>,
+    /// The hour meter was replaced: the reading restarts the machine's meter.
+    pub hour_meter_replaced: bool,
 }
 
 impl Record for Inspection {
@@ -81,6 +85,7 @@ macro_rules! select_inspection {
         "SELECT i.id, i.machine_id, i.kind, i.performed_on, i.hour_meter_h, i.inspector,
             i.result, i.items_json, i.deficiencies, i.corrective_action, i.client_token,
             i.amends_id, i.created_at, i.created_by, i.decision, i.decision_json, i.signed_by_user_id,
+            i.hour_meter_replaced,
             (SELECT MIN(a.id) FROM inspections a WHERE a.amends_id = i.id) AS amended_by_id
          FROM inspections i "
     };
@@ -168,7 +173,7 @@ async fn apply_to_machine(
         set_cause(conn, stored.machine_id, Some(stored.id)).await?;
     }
     if let Some(hours) = stored.hour_meter_h {
-        let newer = machine.hour_meter_h.is_none_or(|h| hours > h)
+        let newer = (stored.hour_meter_replaced || machine.hour_meter_h.is_none_or(|h| hours > h))
             && machine
                 .hour_meter_read_on
                 .as_deref()
@@ -207,7 +212,7 @@ pub async fn insert(
     i: &NewInspection,
 ) -> Result<Stored<Inspection>, WriteError> {
     let token = i.client_token.as_deref();
-    if let Some(found) = records::repeat_of(conn, &TABLE, token, i.machine_id).await? {
+    if let Some(found) = records::repeat_of(conn, &TABLE, token, i.machine_id, i).await? {
         return Ok(found);
     }
     machines::check_usable(conn, "machine_id", i.machine_id).await?;
@@ -216,8 +221,8 @@ pub async fn insert(
         "INSERT INTO inspections (machine_id, kind, performed_on, hour_meter_h, inspector,
             result, items_json, deficiencies, corrective_action, client_token, amends_id,
             created_at, created_by, decision, decision_json,
-            signed_by_user_id)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
+            signed_by_user_id, hour_meter_replaced)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(i.machine_id)
     .bind(&i.kind)
@@ -235,6 +240,7 @@ pub async fn insert(
     .bind(&i.decision)
     .bind(&i.decision_json)
     .bind(i.signed_by_user_id)
+    .bind(i.hour_meter_replaced)
     .fetch_one(&mut *conn)
     .await;
     let stored = records::finish(
@@ -242,8 +248,7 @@ pub async fn insert(
         &TABLE,
         actor,
         inserted,
-        token,
-        i.machine_id,
+        (token, i.machine_id, i),
         before.as_ref(),
     )
     .await?;

@@ -101,21 +101,74 @@ pub async fn by_token<R: Record>(
 }
 
 /// The stored row for a repeated client token: `Some(Existing)` when it belongs to the same
-/// parent, a conflict when it belongs to another, `None` when the token is new (or absent).
+/// parent and `new` carries the same values, a conflict when it belongs to another parent or
+/// differs, `None` when the token is new (or absent).
 pub async fn repeat_of<R: Record>(
     conn: &mut SqliteConnection,
     table: &Table,
     token: Option<&str>,
     parent_id: i64,
+    new: &impl Serialize,
 ) -> Result<Option<Stored<R>>, WriteError> {
     let Some(token) = token else {
         return Ok(None);
     };
     match by_token::<R>(conn, table, token).await? {
         None => Ok(None),
-        Some(found) if found.parent_id() == parent_id => Ok(Some(Stored::Existing(found))),
+        Some(found) if found.parent_id() == parent_id => {
+            same_content(table, &found, new)?;
+            Ok(Some(Stored::Existing(found)))
+        }
         Some(_) => Err(WriteError::conflict("client_token", table.token_clash)),
     }
+}
+
+/// Fields a repeat may differ in: filled by the server (the time when none was sent) or
+/// worked out from the readings by the engineering core of the day.
+const DERIVED: &[&str] = &[
+    "client_token",
+    "tested_at",
+    "readings_json",
+    "analysis_json",
+    "calc_version",
+    "verdict",
+    "diagnosis",
+    "flags",
+    "leak_drift_m",
+    "pressure_change_pa",
+    "thermal_pressure_change_pa",
+];
+
+/// Refuses a repeated client token whose record differs from the one stored under it (a
+/// retry carries the same body; a different body is another record and needs its own token).
+fn same_content<R: Record>(
+    table: &Table,
+    stored: &R,
+    new: &impl Serialize,
+) -> Result<(), WriteError> {
+    let (stored, new) = (snapshot(stored), snapshot(new));
+    let (Some(old), Some(sent)) = (stored.as_object(), new.as_object()) else {
+        return Ok(());
+    };
+    let differ: Vec<&str> = sent
+        .iter()
+        .filter(|(k, _)| !DERIVED.contains(&k.as_str()) && !k.starts_with("scaled_"))
+        .filter(|(k, v)| old.get(k.as_str()).is_some_and(|o| o != *v))
+        .map(|(k, _)| k.as_str())
+        .collect();
+    if differ.is_empty() {
+        return Ok(());
+    }
+    Err(WriteError::conflict(
+        "client_token",
+        format!(
+            "this client token already stored {} {} with other values ({}); a new record needs \
+             a new client token",
+            table.noun,
+            stored["id"],
+            differ.join(", ")
+        ),
+    ))
 }
 
 /// The record `amends` corrects, checked: it exists, belongs to the same parent and no other
@@ -157,14 +210,13 @@ pub async fn finish<R: Record>(
     table: &Table,
     actor: &str,
     inserted: Result<i64, sqlx::Error>,
-    token: Option<&str>,
-    parent_id: i64,
+    (token, parent_id, new): (Option<&str>, i64, &impl Serialize),
     before: Option<&R>,
 ) -> Result<Stored<R>, WriteError> {
     let id = match inserted {
         Ok(id) => id,
         Err(e) if is_unique_violation(&e) => {
-            return match repeat_of(conn, table, token, parent_id).await? {
+            return match repeat_of(conn, table, token, parent_id, new).await? {
                 Some(found) => Ok(found),
                 None => Err(e.into()),
             };

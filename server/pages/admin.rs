@@ -5,7 +5,7 @@ use super::ctx::PageCtx;
 use super::view::FieldErrors;
 use crate::app::AppState;
 use crate::auth::users::{self, Change};
-use crate::auth::{Actor, Role, password, tokens};
+use crate::auth::{Actor, Role, password, throttle, tokens};
 use crate::db::write::WriteError;
 use crate::error::AppError;
 use askama::Template;
@@ -27,6 +27,7 @@ pub fn router() -> Router<AppState> {
         .route("/admin/users/{id}/disable", post(disable))
         .route("/admin/users/{id}/enable", post(enable))
         .route("/admin/users/{id}/password", post(new_password))
+        .route("/admin/users/{id}/unlock", post(unlock))
         .route("/admin/tokens", post(create_token))
         .route("/admin/tokens/{id}/revoke", post(revoke_token))
         .merge(audit::router())
@@ -43,6 +44,8 @@ pub struct UserRow {
     pub role: String,
     pub created_at: String,
     pub disabled_at: String,
+    /// The addresses failed logins locked this account at, comma-separated; empty when none.
+    pub locked_from: String,
     /// The admin looking at the page.
     pub is_self: bool,
 }
@@ -56,6 +59,10 @@ pub struct TokenRow {
     pub created_at: String,
     pub last_used_at: String,
     pub revoked_at: String,
+    /// The user name of the account the token acts for.
+    pub owner: String,
+    /// When it stops working; empty: no expiry.
+    pub expires_at: String,
 }
 
 /// A secret shown on this page once and never again.
@@ -83,6 +90,9 @@ pub struct NewTokenForm {
     pub name: String,
     #[serde(default)]
     pub role: String,
+    /// `YYYY-MM-DD`: the token stops at the start of that day (UTC); empty: no expiry.
+    #[serde(default)]
+    pub expires: String,
 }
 
 #[derive(Template, WebTemplate)]
@@ -102,12 +112,22 @@ pub struct AdminPage {
 impl AdminPage {
     async fn load(state: &AppState, ctx: PageCtx, actor: &Actor) -> Result<AdminPage, AppError> {
         let users = users::list(&state.db).await?;
+        let mut locks = Vec::with_capacity(users.len());
+        for u in &users {
+            locks.push(
+                throttle::locked_addresses(&state.db, &u.username)
+                    .await?
+                    .join(", "),
+            );
+        }
         let tokens = tokens::list(&state.db).await?;
         Ok(AdminPage {
             ctx,
             users: users
                 .into_iter()
-                .map(|u| UserRow {
+                .zip(locks)
+                .map(|(u, locked_from)| UserRow {
+                    locked_from,
                     is_self: actor.user_id == Some(u.id),
                     id: u.id,
                     username: u.username,
@@ -127,6 +147,8 @@ impl AdminPage {
                     created_at: t.created_at,
                     last_used_at: t.last_used_at.unwrap_or_default(),
                     revoked_at: t.revoked_at.unwrap_or_default(),
+                    owner: t.owner.unwrap_or_default(),
+                    expires_at: t.expires_at.unwrap_or_default(),
                 })
                 .collect(),
             roles: ROLES,
@@ -158,6 +180,7 @@ fn notice(done: &str) -> &'static str {
         "disabled" => "User disabled; their sessions have ended.",
         "enabled" => "User enabled.",
         "revoked" => "Token revoked; it is refused from now on.",
+        "unlocked" => "Account unlocked; its failed logins no longer count.",
         _ => "",
     }
 }
@@ -310,6 +333,17 @@ async fn disable(State(state): State<AppState>, actor: Actor, Path(id): Path<Str
     apply(&state, &actor, &id, Change::Disable, "disabled").await
 }
 
+/// Clears the locks failed logins put on a user.
+async fn unlock(State(state): State<AppState>, actor: Actor, Path(id): Path<String>) -> Response {
+    let Ok(id) = id.parse::<i64>() else {
+        return no_record();
+    };
+    match users::unlock(&state.db, &actor, id).await {
+        Ok(_) => Redirect::to("/admin?done=unlocked").into_response(),
+        Err(error) => refused(error),
+    }
+}
+
 async fn enable(State(state): State<AppState>, actor: Actor, Path(id): Path<String>) -> Response {
     apply(&state, &actor, &id, Change::Enable, "enabled").await
 }
@@ -354,9 +388,20 @@ async fn create_token(
     actor: Actor,
     Form(form): Form<NewTokenForm>,
 ) -> Response {
-    let result = match role_field(&form.role) {
-        Ok(role) => tokens::create(&state.db, &actor, &form.name, role).await,
-        Err(error) => Err(error),
+    let expires = match form.expires.trim() {
+        "" => Ok(None),
+        day => crate::auth::cli::expiry(day)
+            .map(Some)
+            .map_err(|m| WriteError::invalid("expires", m)),
+    };
+    // a token made here acts for the admin who made it
+    let result = match (role_field(&form.role), expires, actor.user_id) {
+        (Ok(role), Ok(expires), Some(owner)) => {
+            let at = expires.as_deref();
+            tokens::create_owned(&state.db, &actor, &form.name, role, owner, at).await
+        }
+        (Err(error), _, _) | (_, Err(error), _) => Err(error),
+        (Ok(role), Ok(_), None) => tokens::create(&state.db, &actor, &form.name, role).await,
     };
     let mut page = match AdminPage::load(&state, ctx, &actor).await {
         Ok(page) => page,
@@ -372,7 +417,11 @@ async fn create_token(
             page.into_response()
         }
         Err(error) => {
-            let rename = [("name", "token_name"), ("role", "token_role")];
+            let rename = [
+                ("name", "token_name"),
+                ("role", "token_role"),
+                ("expires", "token_expires"),
+            ];
             if let Some(response) = beside_field(error, &mut page, &rename) {
                 return response;
             }

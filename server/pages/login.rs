@@ -5,13 +5,12 @@ use super::ctx::PageCtx;
 use crate::app::AppState;
 use crate::auth::login::{self, LoginError};
 use crate::auth::middleware::{Credential, client_address};
-use crate::auth::throttle::Blocked;
-use crate::auth::{cookie, sessions};
+use crate::auth::{Actor, cookie, events, sessions};
 use askama::Template;
 use askama_web::WebTemplate;
 use axum::extract::{Form, Query, State};
 use axum::http::header::SET_COOKIE;
-use axum::http::{Extensions, StatusCode};
+use axum::http::{Extensions, HeaderMap, StatusCode};
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
 use axum::{Router, http::HeaderValue};
@@ -81,10 +80,23 @@ async fn submit(
     State(state): State<AppState>,
     ctx: PageCtx,
     extensions: Extensions,
+    headers: HeaderMap,
     Form(form): Form<LoginForm>,
 ) -> Response {
     let address = client_address(&extensions);
     let next = safe_next(&form.next);
+    if !super::origin::same_origin(&headers) {
+        tracing::warn!(%address, "cross-site login refused");
+        let page = LoginPage {
+            ctx: ctx.clone(),
+            username: String::new(),
+            next,
+            message: "This login form was sent from another site. Open the login page of \
+                      this server and log in there."
+                .into(),
+        };
+        return (StatusCode::FORBIDDEN, page).into_response();
+    }
     let refused = |status: StatusCode, message: &str| {
         let page = LoginPage {
             ctx: ctx.clone(),
@@ -119,15 +131,12 @@ async fn submit(
         }
         Err(LoginError::Throttled(blocked)) => {
             tracing::warn!(user = %form.username, %address, ?blocked, "login throttled");
-            let message = match blocked {
-                Blocked::Account => {
-                    "Too many failed logins for this account. Wait 15 minutes and try again, or ask an admin."
-                }
-                Blocked::Address => {
-                    "Too many failed logins from this device. Wait 15 minutes and try again."
-                }
-            };
-            refused(StatusCode::TOO_MANY_REQUESTS, message)
+            refused(
+                StatusCode::TOO_MANY_REQUESTS,
+                "Too many failed logins for this account from this device. The lock lifts 15 \
+                 minutes after the last failed try; logging in from another device still works, \
+                 and an admin can unlock the account now.",
+            )
         }
         Err(LoginError::Refused) => {
             tracing::warn!(user = %form.username, %address, "login refused");
@@ -143,11 +152,19 @@ async fn submit(
 }
 
 /// Ends the session (if this request came with one) and clears the cookie.
-async fn logout(State(state): State<AppState>, extensions: Extensions) -> Response {
-    if let Some(Credential::Session { id }) = extensions.get::<Credential>()
-        && let Err(error) = sessions::end(&state.db, *id).await
-    {
-        return super::page_error(crate::error::AppError::internal(error));
+async fn logout(State(state): State<AppState>, actor: Actor, extensions: Extensions) -> Response {
+    if let Some(Credential::Session { id }) = extensions.get::<Credential>() {
+        let detail = serde_json::json!({"address": client_address(&extensions)});
+        let ended = match sessions::end(&state.db, *id).await {
+            Ok(()) => {
+                let user = ("user", actor.user_id.unwrap_or(0));
+                events::note(&state.db, &actor.name, "logout", user, &detail).await
+            }
+            Err(error) => Err(error),
+        };
+        if let Err(error) = ended {
+            return super::page_error(crate::error::AppError::internal(error));
+        }
     }
     let mut response = Redirect::to("/login").into_response();
     if let Ok(value) = HeaderValue::from_str(&cookie::cleared(cookie::secure())) {

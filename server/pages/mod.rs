@@ -15,6 +15,7 @@ pub mod calc_fields;
 pub mod calc_view;
 pub mod ctx;
 pub mod login; // accounts
+pub mod origin; // accounts
 pub mod view;
 
 // registry

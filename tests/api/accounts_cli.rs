@@ -4,7 +4,7 @@ use crate::helpers::TestApp;
 use axum::http::StatusCode;
 use loadhold::auth::secret;
 
-fn loadhold(args: &[&str], stdin: &str) -> (bool, String, String) {
+pub fn loadhold(args: &[&str], stdin: &str) -> (bool, String, String) {
     use std::io::Write;
     use std::process::{Command, Stdio};
     let mut child = Command::new(env!("CARGO_BIN_EXE_loadhold"))

@@ -1,13 +1,14 @@
 //! In-process API and page tests: one binary, a fresh migrated SQLite file per test.
 
-mod access; // accounts
-mod accounts; // accounts
-mod accounts_cli; // accounts
+pub mod access; // accounts
+pub mod accounts; // accounts
+pub mod accounts_cli; // accounts
 mod audit; // accounts
 mod calc;
 mod calc_errors;
 mod calc_page;
 mod fuzz;
+mod hardening;
 mod health;
 mod helpers;
 mod worst_load; // issue 12: load range, relief, vacuum, tube

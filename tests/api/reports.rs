@@ -3,7 +3,7 @@
 //! date; the day counts beside each check are calendar arithmetic worked by hand ([C]).
 
 mod due;
-mod fleet;
+pub mod fleet;
 mod lists;
 mod pages;
 mod resources;

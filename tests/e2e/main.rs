@@ -7,6 +7,7 @@ mod browser;
 mod crash;
 mod fixture;
 mod form_errors;
+mod hardening;
 mod http;
 mod manager;
 mod openapi;

@@ -23,10 +23,12 @@ const M: UnitSystem = UnitSystem::Metric;
 fn check(scenario: &'static str, pressure: f64, rating: f64) -> Check {
     Check {
         component: "rod_line".into(),
+        exposure: Exposure::Rod,
         scenario,
         pressure,
         rating,
         status: loadhold::calc::ratings::status(pressure, rating),
+        load: 0.0,
     }
 }
 

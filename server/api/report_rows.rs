@@ -284,6 +284,7 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "hose_id": p.hose_id,
             "scenario": p.scenario,
             "component": p.component,
+            "exposure": p.exposure,
             "pressure": pressure(p.pressure_pa),
             "rating": pressure(p.rating_pa),
             "load": shown(Some(p.load_n), Dimension::Force, units),

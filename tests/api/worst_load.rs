@@ -428,3 +428,45 @@ async fn vacuum_readings_down_to_one_atmosphere_are_accepted_and_below_refused()
         "cap_pressure_end",
     );
 }
+
+#[tokio::test]
+async fn an_unrated_end_above_the_relief_setting_is_on_the_hazard_list_and_the_panel() {
+    // 100/70 mm, 200 kN pulling the rod out, machine relief 20 bar, nothing rated: the rod
+    // end reaches (20e5 x 7.854e-3 + 200e3) / 4.0055e-3 = 538.5 bar with the rod port blocked
+    // (force balance), and no rating can check it; the relief setting is what is left.
+    let app = TestApp::new().await;
+    let m = machine_with(
+        &app,
+        json!({"unit_number": "HV-PULL-7", "kind": "crane", "relief_pressure": "20 bar"}),
+    )
+    .await["id"]
+        .as_i64()
+        .unwrap();
+    let (status, c) = app
+        .post_json(
+            "/api/v1/cylinders",
+            &json!({"machine_id": m, "bore": "100 mm", "rod": "70 mm", "stroke": "1 m",
+                    "load_direction": "extend", "max_load": "200 kN"}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{c}");
+    let c = c["id"].as_i64().unwrap();
+    let (_, hazards) = app
+        .get_json("/api/v1/reports/hazards?as_of=2026-01-01")
+        .await;
+    let item = find(&hazards["pressures"], |p| {
+        p["cylinder_id"] == c
+            && p["component"] == "relief_setting"
+            && p["exposure"] == "rod"
+            && p["scenario"] == "rod_side_intensification"
+    });
+    close(&item["pressure"], 538.5e5, "rod end");
+    close(&item["rating"], 20e5, "against the relief setting");
+    close(&item["load"], 200e3, "at the heaviest pulling load");
+    let (_, _, page) = app.get_page(&format!("/cylinders/{c}")).await;
+    assert!(page.contains("Cannot be checked:"), "the panel says so");
+    assert!(page.contains("Relief setting, rod end"));
+    assert!(page.contains("538.5 bar"));
+    let (_, _, list) = app.get_page("/reports/hazards?as_of=2026-01-01").await;
+    assert!(list.contains("Relief setting, rod end (no rating recorded)"));
+}

@@ -305,7 +305,10 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "latest": length(t.latest_m),
             "tests_used": t.tests_used,
         })).collect::<Vec<_>>(),
-        "cautions": cautions::for_result(!h.pressures.is_empty(), false),
+        "cautions": crate::calc::limits::with_relief_caution_if(
+            cautions::for_result(!h.pressures.is_empty(), false),
+            h.pressures.iter().any(|p| p.component == crate::calc::limits::RELIEF_SETTING),
+        ),
     })
 }
 

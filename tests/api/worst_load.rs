@@ -91,6 +91,16 @@ async fn the_calculation_api_takes_the_lightest_load_for_the_blocked_rod_end() {
         HEAVY_ROD_SIDE,
         "one load",
     );
+    // ...and a note says what a lighter load would give (463.4 bar with no load).
+    assert!(
+        body["notes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|n| n.as_str().unwrap().contains("up to 463.4 bar with no load")),
+        "{}",
+        body["notes"]
+    );
     // A lowest load above the load is refused naming min_load.
     let mut bad = example("metric");
     bad["min_load"] = json!("200 kN");
@@ -98,18 +108,22 @@ async fn the_calculation_api_takes_the_lightest_load_for_the_blocked_rod_end() {
     assert_field_error(status, &body, StatusCode::UNPROCESSABLE_ENTITY, "min_load");
 }
 
+/// A crane with a relief setting (and a site, if given); returns its id.
+async fn crane(app: &TestApp, unit: &str, relief: &str, site: Option<i64>) -> i64 {
+    machine_with(
+        app,
+        json!({"unit_number": unit, "kind": "crane", "relief_pressure": relief, "site_id": site}),
+    )
+    .await["id"]
+        .as_i64()
+        .unwrap()
+}
+
 /// A machine with a 250 bar relief setting and the 140/95 mm cylinder on it (180 kN highest
 /// load pushing the rod in, rated 350 bar, no lowest load recorded); returns the cylinder id.
 async fn registry_example(app: &TestApp, units: &str) -> i64 {
     let site = crate::registry_fixtures::site(app, &format!("Yard {units}"), units).await;
-    let m = machine_with(
-        app,
-        json!({"unit_number": format!("HV-140-{units}"), "kind": "crane",
-               "relief_pressure": "250 bar", "site_id": site}),
-    )
-    .await["id"]
-        .as_i64()
-        .unwrap();
+    let m = crane(app, &format!("HV-140-{units}"), "250 bar", Some(site)).await;
     let (status, c) = app
         .post_json(
             "/api/v1/cylinders",
@@ -435,13 +449,7 @@ async fn an_unrated_end_above_the_relief_setting_is_on_the_hazard_list_and_the_p
     // end reaches (20e5 x 7.854e-3 + 200e3) / 4.0055e-3 = 538.5 bar with the rod port blocked
     // (force balance), and no rating can check it; the relief setting is what is left.
     let app = TestApp::new().await;
-    let m = machine_with(
-        &app,
-        json!({"unit_number": "HV-PULL-7", "kind": "crane", "relief_pressure": "20 bar"}),
-    )
-    .await["id"]
-        .as_i64()
-        .unwrap();
+    let m = crane(&app, "HV-PULL-7", "20 bar", None).await;
     let (status, c) = app
         .post_json(
             "/api/v1/cylinders",

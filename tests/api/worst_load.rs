@@ -473,6 +473,7 @@ async fn an_unrated_end_above_the_relief_setting_is_on_the_hazard_list_and_the_p
     close(&item["load"], 200e3, "at the heaviest pulling load");
     let (_, _, page) = app.get_page(&format!("/cylinders/{c}")).await;
     assert!(page.contains("Cannot be checked:"), "the panel says so");
+    assert!(page.contains("No ratings recorded."));
     assert!(page.contains("Relief setting, rod end"));
     assert!(page.contains("538.5 bar"));
     let (_, _, list) = app.get_page("/reports/hazards?as_of=2026-01-01").await;

@@ -479,3 +479,27 @@ async fn an_unrated_end_above_the_relief_setting_is_on_the_hazard_list_and_the_p
     let (_, _, list) = app.get_page("/reports/hazards?as_of=2026-01-01").await;
     assert!(list.contains("Relief setting, rod end (no rating recorded)"));
 }
+
+#[tokio::test]
+async fn every_new_calculation_field_refuses_bad_input_by_name() {
+    let app = TestApp::new().await;
+    let base = example("metric");
+    for (field, value) in [
+        ("min_load", json!("-1 kN")),
+        ("min_load", json!(5)),
+        ("min_load", json!("5 bar")),
+        ("min_load", json!("181 kN")),
+        ("rod_yield", json!("0.1 MPa")),
+        ("rod_yield", json!("NaN MPa")),
+        ("rod_youngs_modulus", json!("1 MPa")),
+        ("rod_poisson_ratio", json!(0.5)),
+        ("rod_poisson_ratio", json!("0.3 bar")),
+        ("tube_poisson_ratio", json!(0.3)),
+        ("buckling_length", json!("0 m")),
+    ] {
+        let mut body = base.clone();
+        body[field] = value;
+        let (status, reply) = app.post_json("/api/v1/calc/cylinder", &body).await;
+        assert_field_error(status, &reply, StatusCode::UNPROCESSABLE_ENTITY, field);
+    }
+}

@@ -503,3 +503,33 @@ async fn every_new_calculation_field_refuses_bad_input_by_name() {
         assert_field_error(status, &reply, StatusCode::UNPROCESSABLE_ENTITY, field);
     }
 }
+
+#[tokio::test]
+async fn the_shop_drift_form_takes_a_vacuum_reading_and_refuses_one_below_vacuum() {
+    use crate::shop_pages::{drift_form, hidden};
+    let app = TestApp::session(loadhold::auth::Role::Admin).await;
+    let (_, cylinder) = crate::drift_tests::loaded_cylinder(&app, "HV-VAC-2").await;
+    let form = format!("/shop/cylinders/{cylinder}/drift-test");
+    let (_, _, page) = app.get_page(&form).await;
+    let token = hidden(&page, "client_token");
+    // -1.5 bar gauge is below absolute zero (-1.01325 bar): refused beside the field.
+    let mut fields = drift_form(&token, "600");
+    fields.extend([
+        ("rod_pressure_end", "-1.5"),
+        ("rod_pressure_end_unit", "bar"),
+    ]);
+    let (status, _, again) = app.post_form(&form, &fields).await;
+    assert_eq!(status, StatusCode::UNPROCESSABLE_ENTITY);
+    assert!(
+        again.contains("id=\"err-rod_pressure_end\""),
+        "beside the field"
+    );
+    // -0.4 bar is a reading: stored.
+    let mut fields = drift_form(&token, "600");
+    fields.extend([
+        ("rod_pressure_end", "-0.4"),
+        ("rod_pressure_end_unit", "bar"),
+    ]);
+    let (status, _, _) = app.post_form(&form, &fields).await;
+    assert_eq!(status, StatusCode::SEE_OTHER);
+}

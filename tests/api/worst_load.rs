@@ -325,6 +325,8 @@ async fn the_tube_answer_carries_the_tresca_stress_that_is_checked() {
     );
     close(&tube["hoop_stress"], p * (a2 + b2) / (b2 - a2), "hoop kept");
     assert_eq!(tube["criterion"], "tresca");
+    close(&tube["youngs_modulus"], 200e9, "the tube modulus given");
+    assert_eq!(tube["poisson_ratio"], 0.29);
     // The highest pressure is the bypass: 100 kN / (pi/4 x 0.056²) = 406.0 bar; Tresca
     // 2 x 40.60 MPa x 3.15471 = 256.2 MPa, above 355/2 = 177.5 MPa.
     close(&tube["pressure"], 406.0e5, "bypass pressure");

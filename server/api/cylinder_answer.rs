@@ -171,6 +171,9 @@ struct Tube {
     equivalent_stress: Shown,
     criterion: &'static str,
     equivalent_utilisation: f64,
+    /// The tube material used for its growth under pressure.
+    youngs_modulus: Option<Shown>,
+    poisson_ratio: Option<f64>,
     yield_strength: Shown,
     safety_factor: f64,
     allowable_stress: Shown,
@@ -349,6 +352,8 @@ pub fn cylinder_response<'a>(
             equivalent_stress: p(t.equivalent_stress),
             criterion: t.criterion,
             equivalent_utilisation: t.equivalent_utilisation,
+            youngs_modulus: input.trapped.tube.map(|w| p(w.youngs)),
+            poisson_ratio: input.trapped.tube.map(|w| w.poisson),
             yield_strength: p(t.yield_strength),
             safety_factor: t.safety_factor,
             allowable_stress: p(t.allowable_stress),

@@ -305,6 +305,7 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "hose_id": p.hose_id,
             "scenario": p.scenario,
             "component": p.component,
+            "exposure": p.exposure,
             "pressure": pressure(p.pressure_pa),
             "rating": pressure(p.rating_pa),
             "load": shown(Some(p.load_n), Dimension::Force, units),
@@ -325,7 +326,10 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "latest": length(t.latest_m),
             "tests_used": t.tests_used,
         })).collect::<Vec<_>>(),
-        "cautions": cautions::for_result(!h.pressures.is_empty(), false),
+        "cautions": crate::calc::limits::with_relief_caution_if(
+            cautions::for_result(!h.pressures.is_empty(), false),
+            h.pressures.iter().any(|p| p.component == crate::calc::limits::RELIEF_SETTING),
+        ),
     })
 }
 

@@ -178,7 +178,9 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
     );
     hazards.extend(valve_words::hazards(input, &bypass, &heating, units));
     hazards.extend(limits::relief_hazards(&checks, units));
-    let notes = limits::unchecked_notes(&input.ratings, input.supply_pressure, &scenarios, units);
+    let mut notes =
+        limits::unchecked_notes(&input.ratings, input.supply_pressure, &scenarios, units);
+    notes.extend(limits::single_load_note(input, units));
     let over = checks.iter().any(|k| k.status != Status::Ok)
         || tube.is_some_and(|t| t.status != Status::Ok);
     let runaway = matches!(

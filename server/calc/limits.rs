@@ -8,7 +8,9 @@
 //! `exceeds`, anything at or below it `ok` (no low-margin band: the cap end sits at the relief
 //! setting itself in the rod-side scenario; our own rule).
 
-use super::cylinder::End;
+use super::analysis::CylinderInput;
+use super::circuit;
+use super::cylinder::{End, LoadDirection};
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::{Check, Exposure, Rating, Scenario, Status};
 use super::{cautions, hazard_words, words};
@@ -167,10 +169,15 @@ pub fn unchecked_notes(
 
 /// `cautions` with [`cautions::ABOVE_RELIEF`] after the specific ones when a relief-setting
 /// check is exceeded.
-pub fn with_relief_caution(mut list: Vec<&'static str>, checks: &[Check]) -> Vec<&'static str> {
+pub fn with_relief_caution(list: Vec<&'static str>, checks: &[Check]) -> Vec<&'static str> {
     let above = checks
         .iter()
         .any(|k| k.component == RELIEF_SETTING && k.status == Status::Exceeds);
+    with_relief_caution_if(list, above)
+}
+
+/// `cautions` with [`cautions::ABOVE_RELIEF`] after the specific ones when `above`.
+pub fn with_relief_caution_if(mut list: Vec<&'static str>, above: bool) -> Vec<&'static str> {
     if above {
         let at = list
             .iter()
@@ -179,6 +186,30 @@ pub fn with_relief_caution(mut list: Vec<&'static str>, checks: &[Check]) -> Vec
         list.insert(at, cautions::ABOVE_RELIEF);
     }
     list
+}
+
+/// A note for an answer worked out at one load (no `min_load`) where a lighter load would give
+/// a higher figure: with a load pushing the rod in, the blocked rod end under supply pressure
+/// rises as the load falls, up to `p A_cap / A_annulus` with no load (force balance on the
+/// piston; REFERENCES.md "Flow and circuits"). `None` when there is nothing to say.
+pub fn single_load_note(input: &CylinderInput, units: UnitSystem) -> Option<String> {
+    let supply = input.supply_pressure?;
+    if input.min_load.is_some()
+        || input.load <= 0.0
+        || input.load_direction != LoadDirection::Retract
+    {
+        return None;
+    }
+    let c = &input.cylinder;
+    let at_load = circuit::rod_side_intensification(c, supply, input.load, input.load_direction);
+    let none = circuit::rod_side_intensification(c, supply, 0.0, input.load_direction);
+    Some(format!(
+        "Worked out at the load given ({}) only: with a lighter load the blocked rod end under {} rises above {}, up to {} with no load. Give min_load for the lightest load held; each pressure is then taken at its worst load.",
+        words::q(input.load, Dimension::Force, units),
+        words::q(supply, Dimension::Pressure, units),
+        words::q(at_load, Dimension::Pressure, units),
+        words::q(none, Dimension::Pressure, units),
+    ))
 }
 
 fn capitalised(text: &str) -> String {

@@ -28,6 +28,12 @@ pub const CYLINDER: &[Spec] = &[
     ),
     ("load", "Held load", "e.g. 100 kN", "e.g. 10000 lbf"),
     (
+        "min_load",
+        "Lowest held load",
+        "optional, e.g. 0 kN; each pressure is taken at its worst load",
+        "optional, e.g. 0 lbf; each pressure is taken at its worst load",
+    ),
+    (
         "supply_pressure",
         "Supply (relief) pressure",
         "optional, e.g. 210 bar",
@@ -113,6 +119,12 @@ pub const OPTIONS: &[Spec] = &[
         "Rod free length at full extension",
         "default twice the stroke",
         "default twice the stroke",
+    ),
+    (
+        "rod_yield",
+        "Rod yield strength",
+        "default 355 MPa (assumed, errs low)",
+        "default 51.5 ksi (assumed, errs low)",
     ),
     (
         "buckling_safety_factor",

@@ -4,7 +4,9 @@
 use crate::calc::analysis::{CylinderInput, CylinderReport, component_words, scenario_words};
 use crate::calc::decay::DecayReport;
 use crate::calc::drift::DriftReport;
+use crate::calc::limits;
 use crate::calc::quantity::{self, Dimension as D, UnitSystem};
+use crate::calc::ratings::Exposure;
 use crate::calc::words;
 
 /// A figure with its label.
@@ -25,7 +27,8 @@ fn row(label: &str, value: String) -> Row {
 #[derive(Clone, Debug)]
 pub struct CheckView {
     pub component: String,
-    pub scenario: &'static str,
+    /// The scenario and the load behind its pressure.
+    pub scenario: String,
     pub pressure: String,
     pub rating: String,
     pub status: &'static str,
@@ -43,6 +46,8 @@ pub struct CylinderView {
     pub strength: Vec<Row>,
     pub checks: Vec<CheckView>,
     pub hazards: Vec<String>,
+    /// What cannot be checked (an end with no rating).
+    pub notes: Vec<String>,
     pub cautions: Vec<String>,
 }
 
@@ -116,10 +121,7 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
             "Tube hoop stress at the bore (Lamé), at the highest pressure",
             p(t.hoop_stress),
         ));
-        strength.push(row(
-            "Tube equivalent stress at the bore (Tresca), checked",
-            p(t.equivalent_stress),
-        ));
+        strength.push(row("Tube stress checked (Tresca)", p(t.equivalent_stress)));
         strength.push(row(
             "Allowable (yield over safety factor)",
             format!(
@@ -133,32 +135,35 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
         let f = |si: f64| words::q(si, D::Force, units);
         let k = b.euler;
         strength.push(row(
-            &format!(
-                "Rod buckling load (Euler, K = {}, length {}{})",
-                k.end_condition.factor(),
+            &format!("Rod buckling (Euler, K = {})", k.end_condition.factor()),
+            format!(
+                "{} at a free length of {}{}",
+                f(k.critical_load),
                 len(k.length),
                 if b.length_assumed {
-                    ", assumed twice the stroke"
+                    " (assumed: twice the stroke)"
                 } else {
                     ""
                 }
             ),
-            f(k.critical_load),
         ));
-        for (label, figure) in [("theoretical", b.theoretical), ("design", b.design)] {
+        for (label, figure) in [("theory", b.theoretical), ("design", b.design)] {
             strength.push(row(
                 &format!(
-                    "With the {label} factor K = {}: slenderness {:.0} ({} range, {})",
-                    figure.effective_length_factor,
-                    figure.slenderness,
-                    figure.range.as_str(),
-                    figure.range.method()
+                    "Rod buckling ({label}, K = {})",
+                    figure.effective_length_factor
                 ),
-                f(figure.critical_load),
+                format!(
+                    "{} ({}, slenderness {:.0}, {} range)",
+                    f(figure.critical_load),
+                    figure.range.method(),
+                    figure.slenderness,
+                    figure.range.as_str()
+                ),
             ));
         }
         strength.push(row(
-            "Allowable against the compressive load (the lowest)",
+            "Rod allowable (the lowest)",
             format!(
                 "{} against {} ({})",
                 f(b.governing_allowable_load),
@@ -192,14 +197,23 @@ pub fn cylinder(input: &CylinderInput, r: &CylinderReport, units: UnitSystem) ->
             .checks
             .iter()
             .map(|c| CheckView {
-                component: component_words(&c.component),
-                scenario: scenario_words(c.scenario),
+                component: match (c.component.as_str(), c.exposure) {
+                    (limits::RELIEF_SETTING, Exposure::Cap) => "Relief setting, cap end".into(),
+                    (limits::RELIEF_SETTING, _) => "Relief setting, rod end".into(),
+                    _ => component_words(&c.component),
+                },
+                scenario: format!(
+                    "{} (at a load of {})",
+                    scenario_words(c.scenario),
+                    words::q(c.load, D::Force, units)
+                ),
                 pressure: p(c.pressure),
                 rating: p(c.rating),
                 status: c.status.as_str(),
             })
             .collect(),
         hazards: r.hazards.clone(),
+        notes: r.notes.clone(),
         cautions: r.cautions.iter().map(|c| c.to_string()).collect(),
     }
 }

@@ -3,6 +3,7 @@
 
 use super::forms::{Choice, encode};
 use crate::calc::analysis::component_words;
+use crate::calc::limits::RELIEF_SETTING;
 use crate::calc::quantity::{Dimension, UnitSystem, significant};
 use crate::db::reports::fleet::OutOfService;
 use crate::db::reports::hazards::{PressureHazard, TrendHazard, scenario_words};
@@ -271,7 +272,11 @@ pub fn pressure_line(p: &PressureHazard, units: UnitSystem) -> PressureLine {
         unit_number: p.unit_number.clone(),
         cylinder_id: p.cylinder_id,
         cylinder: p.cylinder_function.clone().unwrap_or_default(),
-        component: component_words(&p.component),
+        component: match (p.component.as_str(), p.exposure) {
+            (RELIEF_SETTING, "cap") => "Relief setting, cap end (no rating recorded)".into(),
+            (RELIEF_SETTING, _) => "Relief setting, rod end (no rating recorded)".into(),
+            _ => component_words(&p.component),
+        },
         scenario: scenario_words(p.scenario),
         pressure: q(Some(p.pressure_pa), Dimension::Pressure, units),
         rating: q(Some(p.rating_pa), Dimension::Pressure, units),

@@ -98,6 +98,8 @@ pub struct Panel {
     pub rod_side: String,
     pub scenarios: Vec<&'static str>,
     pub rows: Vec<Row>,
+    /// True when no rating at all is recorded (the rows then hold the relief setting only).
+    pub no_ratings: bool,
     pub unrated: Vec<String>,
     pub tube: String,
     pub buckling: String,
@@ -241,6 +243,7 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
         rod_side: report.rod_side_intensification.map(p).unwrap_or_default(),
         scenarios,
         rows,
+        no_ratings: input.ratings.is_empty(),
         unrated,
         tube: report
             .tube

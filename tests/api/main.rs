@@ -11,7 +11,8 @@ mod fuzz;
 mod hardening;
 mod health;
 mod helpers;
-mod worst_load; // issue 12: load range, relief, vacuum, tube
+mod readings_and_strength; // issue 12: vacuum readings, tube, new fields
+mod worst_load; // issue 12: load range, relief setting, unrated ends
 // registry
 mod cylinders;
 mod demo;

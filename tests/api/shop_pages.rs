@@ -11,7 +11,7 @@ use loadhold::auth::Role;
 use std::collections::HashSet;
 
 /// The value of the hidden input `name` in a page.
-fn hidden(page: &str, name: &str) -> String {
+pub fn hidden(page: &str, name: &str) -> String {
     let marker = format!("name=\"{name}\" value=\"");
     let at = page.find(&marker).map(|i| i + marker.len()).expect(name);
     page[at..].chars().take_while(|c| *c != '"').collect()
@@ -36,7 +36,7 @@ async fn count(app: &TestApp, table: &str) -> i64 {
         .expect("count")
 }
 
-fn drift_form<'a>(token: &'a str, duration: &'a str) -> Vec<(&'a str, &'a str)> {
+pub fn drift_form<'a>(token: &'a str, duration: &'a str) -> Vec<(&'a str, &'a str)> {
     vec![
         ("client_token", token),
         ("procedure_id", ""),

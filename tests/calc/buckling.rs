@@ -189,3 +189,53 @@ fn the_analysis_states_an_assumed_free_length_and_yield() {
     assert!(!b.length_assumed && !b.yield_assumed);
     close(b.euler.length, 1.5, 1e-12, "given length");
 }
+
+mod property {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(256))]
+
+        /// For any rod: the figures are finite and positive; the Johnson load never exceeds
+        /// the squash load sigma_y A nor Euler's load at the same slenderness (with
+        /// x = sigma_y lambda² / (pi² E): 1 - x/4 <= 1/x because (x - 2)² >= 0, algebra);
+        /// the governing allowable is the lowest of the three and the status follows it.
+        #[test]
+        fn buckling_figures_are_finite_bounded_and_the_strictest_governs(
+            d in 0.005..0.3f64,
+            l in 0.05..15.0f64,
+            e in 50e9..250e9f64,
+            sy in 150e6..1200e6f64,
+            load in 0.0..5e6f64,
+            sf in 1.0..6.0f64,
+            which in 0usize..4,
+        ) {
+            let ec = [
+                EndCondition::FixedFree,
+                EndCondition::PinnedPinned,
+                EndCondition::FixedPinned,
+                EndCondition::FixedFixed,
+            ][which];
+            let r = buckling::rod_check(d, l, e, sy, ec, load, sf);
+            let area = PI * d * d / 4.0;
+            for f in [r.theoretical, r.design] {
+                prop_assert!(f.critical_load.is_finite() && f.critical_load > 0.0);
+                prop_assert!(f.critical_load <= sy * area * (1.0 + 1e-12));
+                let euler_same = PI * PI * e / (f.slenderness * f.slenderness) * area;
+                prop_assert!(f.critical_load <= euler_same * (1.0 + 1e-9));
+            }
+            prop_assert!(r.governing_allowable_load <= r.euler.allowable_load);
+            prop_assert!(r.governing_allowable_load <= r.design.allowable_load);
+            prop_assert!(r.governing_allowable_load <= r.theoretical.allowable_load);
+            let expected = if load > r.governing_allowable_load {
+                Status::Exceeds
+            } else if load >= 0.9 * r.governing_allowable_load {
+                Status::LowMargin
+            } else {
+                Status::Ok
+            };
+            prop_assert_eq!(r.status, expected);
+        }
+    }
+}

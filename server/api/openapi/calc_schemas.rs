@@ -213,6 +213,8 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ]),
                                 vec![
                                     ("criterion", words(&["tresca"])),
+                                    ("youngs_modulus", opt_quantity()),
+                                    ("poisson_ratio", nullable(number())),
                                     ("equivalent_utilisation", number()),
                                     ("safety_factor", number()),
                                     ("utilisation", number()),

@@ -224,6 +224,7 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                                 ("hose_id", oint()),
                                 ("scenario", string()),
                                 ("component", string()),
+                                ("exposure", words(&["cap", "rod", "both"])),
                                 ("pressure", quantity()),
                                 ("rating", quantity()),
                                 ("load", quantity()),

@@ -45,6 +45,8 @@ pub struct PressureHazard {
     /// `cylinder`, the hose's label (`H12 (cap port, SAE 100R2AT)`), or `relief_setting` (an
     /// end with no rating recorded, whose pressure is above the machine's relief setting).
     pub component: String,
+    /// The pressures the component sees: `cap`, `rod` or `both` (the cylinder).
+    pub exposure: &'static str,
     /// The hose, when the rating is a hose's.
     pub hose_id: Option<i64>,
     /// Pressure the scenario puts on the component and its rating, Pa.
@@ -197,6 +199,7 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
             cylinder_function: c.function.clone(),
             scenario,
             component: k.component.clone(),
+            exposure: k.exposure.as_str(),
             hose_id: hoses
                 .iter()
                 .find(|h| hose_label(h) == k.component)

@@ -16,6 +16,7 @@ pub mod cylinder_answer;
 
 // registry
 pub mod cylinder_draft;
+pub mod cylinder_valves_draft;
 pub mod cylinders;
 pub mod draft;
 pub mod errors;

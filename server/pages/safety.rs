@@ -25,6 +25,8 @@ pub fn installed(c: &Cylinder) -> Installed {
         tube_outside_diameter: c.tube_outside_diameter_m,
         tube_yield: c.tube_yield_pa,
         end_condition: c.end_condition.clone(),
+        valves: c.valves.calc(),
+        temperature_rise: c.site_trapped_oil_warming_k,
     }
 }
 

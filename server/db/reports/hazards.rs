@@ -97,6 +97,9 @@ struct CylinderRow {
     tube_outside_diameter_m: Option<f64>,
     tube_yield_pa: Option<f64>,
     end_condition: Option<String>,
+    #[sqlx(flatten)]
+    valves: crate::db::cylinder_valves::ValveFields,
+    trapped_oil_warming_k: Option<f64>,
 }
 
 async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>, sqlx::Error> {
@@ -104,7 +107,9 @@ async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>
         "SELECT c.id, c.machine_id, m.unit_number, m.site_id, s.name AS site_name, c.function,
             c.bore_m, c.rod_m, c.stroke_m, c.load_direction, c.max_load_n,
             c.holding_pressure_pa, c.rated_pressure_pa, m.relief_pressure_pa,
-            c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition
+            c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition, c.holding_valve,
+            c.holding_valve_setting_pa, c.holding_valve_pilot_ratio, c.holding_valve_pilot,
+            c.cap_port_centre, c.rod_port_centre, s.trapped_oil_warming_k
          FROM cylinders c
          JOIN machines m ON m.id = c.machine_id
          LEFT JOIN sites s ON s.id = m.site_id
@@ -145,6 +150,8 @@ fn input(c: &CylinderRow, hoses: &[&HoseRow]) -> Option<CylinderInput> {
         tube_outside_diameter: c.tube_outside_diameter_m,
         tube_yield: c.tube_yield_pa,
         end_condition: c.end_condition.clone(),
+        valves: c.valves.calc(),
+        temperature_rise: c.trapped_oil_warming_k,
     };
     let lines: Vec<RatedLine> = hoses
         .iter()

@@ -74,3 +74,40 @@ pub fn values(v: &mut Values, valves: &ValveFields, units: UnitSystem) {
     v.insert("cap_port_centre".into(), word(&valves.cap_port_centre));
     v.insert("rod_port_centre".into(), word(&valves.rod_port_centre));
 }
+
+/// The recorded valves in words for the cylinder page, e.g. "counterbalance valve set at
+/// 170 bar, pilot ratio 3.5 from the other port; cap port not recorded, rod port blocked".
+pub fn describe(valves: &ValveFields, units: UnitSystem) -> String {
+    let valve = match valves.holding_valve.as_deref() {
+        Some("counterbalance") => format!(
+            "counterbalance valve{}",
+            valves
+                .holding_valve_setting_pa
+                .map(|s| format!(
+                    " set at {}",
+                    forms::quantity_text(Some(s), Dimension::Pressure, units)
+                ))
+                .unwrap_or_default()
+        ),
+        Some("pilot_check") => "pilot-operated check valve".to_string(),
+        _ => "no load-holding valve recorded".to_string(),
+    };
+    let pilot = match (
+        valves.holding_valve_pilot_ratio,
+        valves.holding_valve_pilot.as_deref(),
+    ) {
+        (Some(r), Some("external")) => format!(", pilot ratio {r} from an external line"),
+        (Some(r), _) => format!(", pilot ratio {r} from the other port"),
+        _ => String::new(),
+    };
+    let centre = |c: &Option<String>| match c.as_deref() {
+        Some("open_to_tank") => "open to tank",
+        Some("blocked") => "blocked",
+        _ => "not recorded (taken as blocked)",
+    };
+    format!(
+        "{valve}{pilot}; centred, cap port {}, rod port {}",
+        centre(&valves.cap_port_centre),
+        centre(&valves.rod_port_centre)
+    )
+}

@@ -138,3 +138,30 @@ async fn a_registry_cylinder_keeps_its_valves_and_its_site_warming_reaches_the_p
     // The site's 25 K (not the 10 K default) warms the trapped oil up to the valve's setting.
     assert!(page.contains("Warming by 25"), "{page}");
 }
+
+#[tokio::test]
+async fn the_free_piston_heating_holds_in_us_units() {
+    // REFERENCES.md "Added 2026-12-02" check case [C] with US inputs: 4 in bore, 2 in rod,
+    // 24 in stroke at 12 in, 18 degF of warming (10 K, NIST SP 811: 5/9 K per degF), oil
+    // defaults 1.5 GPa and 7e-4 per K (REFERENCES.md "Fluid properties", from memory):
+    // dp_rod = K alpha dT (1 + A_rod / (A_cap (L - x)/x + A_ann)); x = L/2.
+    let app = TestApp::anonymous().await;
+    let (status, r) = app
+        .post_json(
+            "/api/v1/calc/cylinder",
+            &json!({
+                "bore": "4 in", "rod": "2 in", "stroke": "24 in", "position": "12 in",
+                "load": "10000 lbf", "load_direction": "retract", "units": "us",
+                "temperature_rise": "18 degF",
+            }),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{r}");
+    let inch: f64 = 0.0254;
+    let a_cap = PI * (4.0 * inch).powi(2) / 4.0;
+    let a_rod = PI * (2.0 * inch).powi(2) / 4.0;
+    let rod = 1.5e9 * 7e-4 * 10.0 * (1.0 + a_rod / (a_cap + (a_cap - a_rod)));
+    let got = si(&r["trapped_oil_heating"]["rod_rise"]);
+    assert!(((got - rod) / rod).abs() < 0.005, "{got} vs {rod}");
+    assert_eq!(r["trapped_oil_heating"]["rod_rise"]["unit"], "psi");
+}

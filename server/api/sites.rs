@@ -68,6 +68,9 @@ pub fn read(
     p.finish((site, archived))
 }
 
+/// Why the default warming is what it is (ours, stated with it).
+pub const DEFAULT_WARMING_REASON: &str = "our default of 10 K, not a published figure: a machine parked with its valves closed, its oil warming in the sun or from a hot engine bay; record the warming expected on this site";
+
 /// A site as the API shows it.
 pub fn to_json(site: &Site) -> Value {
     let units = if site.units == "us" {
@@ -82,6 +85,11 @@ pub fn to_json(site: &Site) -> Value {
             site.trapped_oil_warming_k.unwrap_or(fluid::DEFAULT_TRAPPED_TEMPERATURE_RISE)
         ),
         "trapped_oil_warming_basis": if site.trapped_oil_warming_k.is_some() { "recorded" } else { "default" },
+        "trapped_oil_warming_reason": if site.trapped_oil_warming_k.is_some() {
+            "recorded for this site"
+        } else {
+            DEFAULT_WARMING_REASON
+        },
         "id": site.id,
         "name": site.name,
         "units": site.units,

@@ -24,10 +24,16 @@ fn merritt_style_worked_example_gives_about_41100_psi() {
 fn tube_modulus_is_the_lame_bore_growth() {
     // REFERENCES.md: 1/Bc = (2/E)((Do² + D²)/(Do² - D²) + nu) (Merritt, from memory) "follows
     // from Lamé" [C]: the bore's area grows by 2u/a, u the plane-stress Lamé radial growth.
-    let (a, b, e, nu, p) = (0.01, 0.02, 210e9, 0.3, 100e6);
-    let u = strength::lame_radial_growth(p, a, b, e, nu, AxialState::PlaneStress);
+    // u_a written out (REFERENCES.md "Added 2026-12-02" [C], plane stress):
+    // u_a = (p a / E)((b² + a²)/(b² - a²) + nu) = 9.365e-6 m for this case.
+    let (a, b, e, nu, p) = (0.01f64, 0.02f64, 210e9, 0.3, 100e6);
+    let u = p * a / e * ((b * b + a * a) / (b * b - a * a) + nu);
+    close(u, 9.365e-6, FIGURE, "u_a by hand");
     let bc = fluid::tube_bulk_modulus(2.0 * a, 2.0 * b, e, nu).unwrap();
     close(1.0 / bc, 2.0 * u / (a * p), 1e-9, "container compliance");
+    // The strength module's general plane-stress growth agrees with the closed form.
+    let general = strength::lame_radial_growth(p, a, b, e, nu, AxialState::PlaneStress);
+    close(general, u, 1e-9, "Lamé plane stress");
     // Thin-wall limit (common textbook result): 1/Bc -> D/(tE) as the wall thins.
     let (d, t) = (0.1, 0.001);
     let thin = fluid::tube_bulk_modulus(d, d + 2.0 * t, e, nu).unwrap();

@@ -32,6 +32,7 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                     ("trapped_oil_warming", opt_quantity()),
                     ("trapped_oil_warming_used", quantity()),
                     ("trapped_oil_warming_basis", words(&["recorded", "default"])),
+                    ("trapped_oil_warming_reason", string()),
                 ],
                 &["id", "name", "units"],
             ),

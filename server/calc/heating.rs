@@ -65,22 +65,19 @@ struct End2 {
     compliance: f64,
     /// `alpha V dT` for the whole change, m³.
     growth: f64,
-    /// Held rise per whole change where the end has no compliance (an empty chamber), Pa.
-    fallback: f64,
     fixed: bool,
     relief: Option<f64>,
     pressure: f64,
 }
 
 impl End2 {
-    /// Pressure rate per whole change with the piston moving at `dx` (per whole change).
+    /// Pressure rate per whole change with the piston moving at `dx` (per whole change); an
+    /// end that is not fixed has oil, so a compliance above zero.
     fn rate(&self, sign: f64, dx: f64) -> f64 {
         if self.fixed {
             0.0
-        } else if self.compliance > 0.0 {
-            (self.growth + sign * self.area * dx) / self.compliance
         } else {
-            self.fallback
+            (self.growth + sign * self.area * dx) / self.compliance
         }
     }
 }
@@ -106,7 +103,6 @@ pub fn free_piston(
         area: cylinder.area(end),
         compliance: trapped.compliance(cylinder, end, x0),
         growth: expansion * trapped.oil_volume(cylinder, end, x0) * dt,
-        fallback,
         fixed: s.open || s.relief.is_some_and(|r| s.pressure >= r && dt > 0.0),
         relief: s.relief,
         pressure: s.pressure,

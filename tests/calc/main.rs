@@ -8,6 +8,7 @@ mod bypass;
 mod circuit;
 mod decay;
 mod diagnosis;
+mod diagnosis_ends;
 mod due;
 mod fluid;
 mod geometry;

@@ -1,10 +1,12 @@
 //! Reading a cylinder from a JSON object over a base record; the merged geometry is checked
 //! as a whole (a new rod against the stored bore).
 
+use super::cylinder_valves_draft;
 use super::draft::{Problems, id, positive, required_positive, text, touched};
 use super::input::Fields;
 use super::machine_draft::MAX_INTERVAL_DAYS;
 use crate::calc::quantity::{self, Dimension, UnitSystem};
+use crate::db::cylinder_valves::ValveFields;
 use crate::db::cylinders::CylinderFields;
 use crate::error::AppError;
 use serde_json::{Map, Value};
@@ -31,6 +33,13 @@ pub const FIELDS: &[&str] = &[
     "drift_test_interval_days",
     "archived",
     "units",
+    // The valves (api::cylinder_valves_draft).
+    "holding_valve",
+    "holding_valve_setting",
+    "holding_valve_pilot_ratio",
+    "holding_valve_pilot",
+    "cap_port_centre",
+    "rod_port_centre",
 ];
 
 /// `retract`: the load pushes the rod in (held by the cap end); `extend`: it pulls it out.
@@ -63,6 +72,7 @@ pub struct Draft {
     pub serial: Option<String>,
     pub notes: Option<String>,
     pub drift_test_interval_days: Option<i64>,
+    pub valves: ValveFields,
 }
 
 impl From<CylinderFields> for Draft {
@@ -86,6 +96,7 @@ impl From<CylinderFields> for Draft {
             serial: c.serial,
             notes: c.notes,
             drift_test_interval_days: c.drift_test_interval_days,
+            valves: c.valves,
         }
     }
 }
@@ -200,6 +211,7 @@ pub fn read(
     {
         c.drift_test_interval_days = v;
     }
+    cylinder_valves_draft::read(map, &f, &mut p, &mut c.valves);
     let archived = p.take(f.opt_bool("archived")).flatten();
     let fields = finish(c, &mut p);
     match fields {
@@ -300,6 +312,7 @@ fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
             "the tube's outside diameter must be larger than the bore",
         ));
     }
+    cylinder_valves_draft::check(&c.valves, c.load_direction.as_deref(), p);
     Some(CylinderFields {
         machine_id: c.machine_id?,
         function: c.function,
@@ -319,5 +332,6 @@ fn finish(c: Draft, p: &mut Problems) -> Option<CylinderFields> {
         serial: c.serial,
         notes: c.notes,
         drift_test_interval_days: c.drift_test_interval_days,
+        valves: c.valves,
     })
 }

@@ -29,7 +29,7 @@ pub fn router() -> Router<AppState> {
 /// A cylinder as the API shows it, quantities in `units`.
 pub fn to_json(c: &Cylinder, units: UnitSystem) -> Value {
     let length = |v: f64| shown(Some(v), Dimension::Length, units);
-    json!({
+    let mut out = json!({
         "id": c.id,
         "machine_id": c.machine_id,
         "unit_number": c.unit_number,
@@ -56,7 +56,11 @@ pub fn to_json(c: &Cylinder, units: UnitSystem) -> Value {
         "archived": c.archived_at.is_some(),
         "archived_at": c.archived_at,
         "units": units.as_str(),
-    })
+    });
+    if let Value::Object(map) = &mut out {
+        super::cylinder_valves_draft::to_json(&c.valves, units, map);
+    }
+    out
 }
 
 /// The answer for one cylinder: asked units, else its site's, else metric.

@@ -19,6 +19,7 @@ pub mod decision_answer;
 
 // registry
 pub mod cylinder_draft;
+pub mod cylinder_valves_draft;
 pub mod cylinders;
 pub mod draft;
 pub mod errors;

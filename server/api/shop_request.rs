@@ -90,6 +90,7 @@ pub async fn cylinder_request(
     if let Some(e) = &c.end_condition {
         r.insert("end_condition".into(), json!(e));
     }
+    valve_request(c, &mut r);
     let mut ratings = Map::new();
     if let Some(p) = c.rated_pressure_pa {
         ratings.insert("cylinder".into(), si(p, D::Pressure));
@@ -114,4 +115,28 @@ pub async fn cylinder_request(
         r.insert("ratings".into(), Value::Object(ratings));
     }
     Ok(r)
+}
+
+/// The recorded valves and the site's trapped-oil warming as calculation request fields.
+fn valve_request(c: &Cylinder, r: &mut Map<String, Value>) {
+    let v = &c.valves;
+    for (name, word) in [
+        ("holding_valve", &v.holding_valve),
+        ("holding_valve_pilot", &v.holding_valve_pilot),
+        ("cap_port_centre", &v.cap_port_centre),
+        ("rod_port_centre", &v.rod_port_centre),
+    ] {
+        if let Some(w) = word {
+            r.insert(name.into(), json!(w));
+        }
+    }
+    if let Some(s) = v.holding_valve_setting_pa {
+        r.insert("holding_valve_setting".into(), si(s, D::Pressure));
+    }
+    if let Some(ratio) = v.holding_valve_pilot_ratio {
+        r.insert("holding_valve_pilot_ratio".into(), json!(ratio));
+    }
+    if let Some(k) = c.site_trapped_oil_warming_k {
+        r.insert("temperature_rise".into(), si(k, D::TemperatureChange));
+    }
 }

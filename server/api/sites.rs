@@ -6,6 +6,8 @@ use super::paging::{Params, page_json, path_id};
 use super::registry::{missing, refuse_new_archived};
 use crate::app::AppState;
 use crate::auth::Actor;
+use crate::calc::fluid;
+use crate::calc::quantity::{self, Dimension, UnitSystem};
 use crate::db::sites::{self, Site, SiteFields};
 use crate::error::{ApiResult, AppError};
 use axum::extract::{Path, State};
@@ -21,7 +23,7 @@ pub fn router() -> Router<AppState> {
 }
 
 /// Fields a site body may carry.
-pub const FIELDS: &[&str] = &["name", "units", "archived"];
+pub const FIELDS: &[&str] = &["name", "units", "archived", "trapped_oil_warming"];
 
 /// Reads a site from a JSON object over `base` (the stored site, or empty for a new one).
 /// Returns the fields and the `archived` flag if given; every problem when refused.
@@ -43,6 +45,18 @@ pub fn read(
     {
         site.units = units.to_string();
     }
+    if touched(map, "trapped_oil_warming")
+        && let Some(k) = p.take(f.opt_quantity("trapped_oil_warming", Dimension::TemperatureChange))
+    {
+        match k {
+            Some(k) if k > 200.0 => p.push(AppError::field(
+                "trapped_oil_warming",
+                "out_of_range",
+                "the warming must lie between 0 and 200 K",
+            )),
+            _ => site.trapped_oil_warming_k = k,
+        }
+    }
     let archived = p.take(f.opt_bool("archived")).flatten();
     if site.name.is_empty() && !p.has("name") {
         p.push(AppError::field(
@@ -54,9 +68,28 @@ pub fn read(
     p.finish((site, archived))
 }
 
+/// Why the default warming is what it is (ours, stated with it).
+pub const DEFAULT_WARMING_REASON: &str = "our default of 10 K, not a published figure: a machine parked with its valves closed, its oil warming in the sun or from a hot engine bay; record the warming expected on this site";
+
 /// A site as the API shows it.
 pub fn to_json(site: &Site) -> Value {
+    let units = if site.units == "us" {
+        UnitSystem::Us
+    } else {
+        UnitSystem::Metric
+    };
+    let warming = |k: f64| quantity::show(k, Dimension::TemperatureChange, units);
     json!({
+        "trapped_oil_warming": site.trapped_oil_warming_k.map(warming),
+        "trapped_oil_warming_used": warming(
+            site.trapped_oil_warming_k.unwrap_or(fluid::DEFAULT_TRAPPED_TEMPERATURE_RISE)
+        ),
+        "trapped_oil_warming_basis": if site.trapped_oil_warming_k.is_some() { "recorded" } else { "default" },
+        "trapped_oil_warming_reason": if site.trapped_oil_warming_k.is_some() {
+            "recorded for this site"
+        } else {
+            DEFAULT_WARMING_REASON
+        },
         "id": site.id,
         "name": site.name,
         "units": site.units,
@@ -76,6 +109,7 @@ async fn create(
     let empty = SiteFields {
         name: String::new(),
         units: "metric".into(),
+        trapped_oil_warming_k: None,
     };
     let (fields, archived) = read(&body, empty).map_err(first)?;
     refuse_new_archived(archived, "site")?;

@@ -23,7 +23,7 @@ use super::analysis::{CylinderReport, SEAL_BYPASS, component_words};
 use super::bypass::Outcome;
 use super::cylinder::{End, LoadDirection};
 use super::drift::{DriftReadings, DriftReport, READING_TOLERANCE, THERMAL_TOLERANCE, Verdict};
-use super::other_end::{Basis, OtherEnd};
+use super::other_end;
 use super::quantity::{Dimension, UnitSystem};
 use super::ratings::Status;
 use super::{analysis::CylinderInput, cautions, words};
@@ -134,7 +134,7 @@ pub fn diagnose(
         }
         .max(0.0)
     };
-    reasoning.push(other_end_words(report.other_end, other));
+    reasoning.push(other_end::words(report.other_end, other));
     let threshold = tol_p + warm(other);
     let other_pair = r.pressures.pair(other);
     let hold_pair = r.pressures.pair(hold);
@@ -317,28 +317,6 @@ pub fn diagnose(
         reasoning,
         hazards,
         cautions: cautions::for_result(over_rating, runaway),
-    }
-}
-
-/// Where the analysis took the non-holding end's state from, in a sentence.
-fn other_end_words(state: OtherEnd, other: End) -> String {
-    let port = end_adj(other);
-    match (state.basis, state.open) {
-        (Basis::Recorded, true) => {
-            format!("The {port} port is open to tank in the valve's centre, as recorded.")
-        }
-        (Basis::Recorded, false) => {
-            format!("The {port} port is blocked in the valve's centre, as recorded.")
-        }
-        (Basis::Readings, true) => format!(
-            "The {port} pressure stayed at zero, so that port was taken as open to tank during the test."
-        ),
-        (Basis::Readings, false) => format!(
-            "The {port} pressure held or changed, so that port was taken as blocked during the test."
-        ),
-        (Basis::Assumed, _) => format!(
-            "The {port} port's state was not recorded and its pressure not read: it is taken as blocked, the case in which a temperature change explains the least drift, so no leak is explained away."
-        ),
     }
 }
 

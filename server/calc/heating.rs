@@ -65,22 +65,19 @@ struct End2 {
     compliance: f64,
     /// `alpha V dT` for the whole change, m³.
     growth: f64,
-    /// Held rise per whole change where the end has no compliance (an empty chamber), Pa.
-    fallback: f64,
     fixed: bool,
     relief: Option<f64>,
     pressure: f64,
 }
 
 impl End2 {
-    /// Pressure rate per whole change with the piston moving at `dx` (per whole change).
+    /// Pressure rate per whole change with the piston moving at `dx` (per whole change); an
+    /// end that is not fixed has oil, so a compliance above zero.
     fn rate(&self, sign: f64, dx: f64) -> f64 {
         if self.fixed {
             0.0
-        } else if self.compliance > 0.0 {
-            (self.growth + sign * self.area * dx) / self.compliance
         } else {
-            self.fallback
+            (self.growth + sign * self.area * dx) / self.compliance
         }
     }
 }
@@ -106,18 +103,19 @@ pub fn free_piston(
         area: cylinder.area(end),
         compliance: trapped.compliance(cylinder, end, x0),
         growth: expansion * trapped.oil_volume(cylinder, end, x0) * dt,
-        fallback,
         fixed: s.open || s.relief.is_some_and(|r| s.pressure >= r && dt > 0.0),
         relief: s.relief,
         pressure: s.pressure,
     };
     let mut ends = [make(End::Cap, cap), make(End::Rod, rod)];
     let mut relieves = ends.iter().any(|e| e.fixed && e.relief.is_some());
-    let (mut x, mut left, mut stopped, mut bottoms, mut cavitates) = (x0, 1.0, held, false, false);
-    // An empty end means the piston sits on that stop already.
-    if ends[0].compliance <= 0.0 || ends[1].compliance <= 0.0 {
-        stopped = true;
+    // An end with no oil (the piston on that end's stop, no line) cannot hold the piston: it
+    // moves freely away from that stop, and the stop event holds it against it.
+    let empty = [ends[0].compliance <= 0.0, ends[1].compliance <= 0.0];
+    for (e, is_empty) in ends.iter_mut().zip(empty) {
+        e.fixed |= is_empty;
     }
+    let (mut x, mut left, mut stopped, mut bottoms, mut cavitates) = (x0, 1.0, held, false, false);
     for _ in 0..8 {
         if left <= 0.0 {
             break;
@@ -170,6 +168,13 @@ pub fn free_piston(
                 relieves = true;
             }
             None => {}
+        }
+    }
+    // An empty end's port still holds a little oil: shown held (`B alpha dT`, never below
+    // vacuum), the cautious figure for the line fitted there.
+    for (i, start) in [cap.pressure, rod.pressure].into_iter().enumerate() {
+        if empty[i] && !(i == 0 && cap.open || i == 1 && rod.open) {
+            ends[i].pressure = start + fallback.max(-ATMOSPHERE - start);
         }
     }
     Thermal {

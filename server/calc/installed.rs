@@ -9,6 +9,7 @@ use super::cylinder::{Cylinder, End, LoadDirection};
 use super::error::CalcError;
 use super::ratings::{Exposure, Rating};
 use super::strength::EndCondition;
+use super::valves::Valves;
 
 /// Where the held load figure came from.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -47,6 +48,10 @@ pub struct Installed {
     pub buckling_length: Option<f64>,
     /// Rod yield strength, Pa; none: the core's default, said as assumed.
     pub rod_yield: Option<f64>,
+    /// The load-holding valve and the valve centre at each port, as recorded.
+    pub valves: Valves,
+    /// The site's trapped-oil warming, K; `None` takes the default (10 K, ours).
+    pub temperature_rise: Option<f64>,
 }
 
 /// A rated line fitted to one port of the cylinder.
@@ -109,6 +114,10 @@ impl Installed {
         input.buckling.length = self.buckling_length;
         input.buckling.yield_strength = self.rod_yield;
         input.supply_pressure = self.relief_pressure;
+        input.valves = self.valves;
+        if let Some(rise) = self.temperature_rise {
+            input.temperature_rise = rise;
+        }
         input.trapped.tube = self.tube_outside_diameter.map(TubeWall::steel);
         input.tube_yield = self.tube_outside_diameter.and(self.tube_yield);
         // Rod buckling is checked only where the mounting (end condition) is recorded.

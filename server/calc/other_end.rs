@@ -1,6 +1,7 @@
 //! Whether the non-holding end was blocked during a drift test, and the thermal drift and
 //! pressure changes that follow from it with the piston free under the load.
 
+use super::cylinder::End;
 use super::cylinder_input::CylinderInput;
 use super::diagnosis::pressure_tolerance;
 use super::drift::PortPressures;
@@ -90,8 +91,33 @@ pub fn thermal(
         position,
         input.oil_expansion,
         dt,
-        setup(super::cylinder::End::Cap, start.0),
-        setup(super::cylinder::End::Rod, start.1),
+        setup(End::Cap, start.0),
+        setup(End::Rod, start.1),
         false,
     )
+}
+
+/// Where the analysis took the non-holding end's state from, in a sentence.
+pub fn words(state: OtherEnd, other: End) -> String {
+    let port = match other {
+        End::Cap => "cap-end",
+        End::Rod => "rod-end",
+    };
+    match (state.basis, state.open) {
+        (Basis::Recorded, true) => {
+            format!("The {port} port is open to tank in the valve's centre, as recorded.")
+        }
+        (Basis::Recorded, false) => {
+            format!("The {port} port is blocked in the valve's centre, as recorded.")
+        }
+        (Basis::Readings, true) => format!(
+            "The {port} pressure stayed at zero, so that port was taken as open to tank during the test."
+        ),
+        (Basis::Readings, false) => format!(
+            "The {port} pressure held or changed, so that port was taken as blocked during the test."
+        ),
+        (Basis::Assumed, _) => format!(
+            "The {port} port's state was not recorded and its pressure not read: it is taken as blocked, the case in which a temperature change explains the least drift, so no leak is explained away."
+        ),
+    }
 }

@@ -270,3 +270,30 @@ pub fn counterbalance(
         setting_recorded: recorded.is_some(),
     }
 }
+
+impl Valves {
+    /// The valves from their stored words (`calc::valves` names; unknown words read as not
+    /// recorded): kind, setting (Pa), pilot ratio, pilot source (`other_port` unless
+    /// `external`), cap and rod port centres.
+    pub fn from_words(
+        holding: Option<&str>,
+        setting: Option<f64>,
+        pilot_ratio: Option<f64>,
+        pilot: Option<&str>,
+        cap_centre: Option<&str>,
+        rod_centre: Option<&str>,
+    ) -> Valves {
+        Valves {
+            holding: holding.and_then(ValveKind::parse).map(|kind| HoldingValve {
+                kind,
+                setting: setting.filter(|_| kind == ValveKind::Counterbalance),
+                pilot_ratio,
+                pilot: pilot
+                    .and_then(PilotSource::parse)
+                    .unwrap_or(PilotSource::OtherPort),
+            }),
+            cap_centre: cap_centre.and_then(Centre::parse),
+            rod_centre: rod_centre.and_then(Centre::parse),
+        }
+    }
+}

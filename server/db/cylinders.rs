@@ -1,6 +1,7 @@
 //! Cylinders: geometry, which way the held load acts, load and ratings, tube and rod data
 //! for the strength checks, and the drift-test interval.
 
+use super::cylinder_valves::{self, ValveFields};
 use super::page::{Page, Window, contains_pattern};
 use super::write::{WriteError, archived_at_after, change_action};
 use super::{Db, audit, machines};
@@ -40,6 +41,12 @@ pub struct Cylinder {
     pub updated_at: String,
     pub archived_at: Option<String>,
     pub hose_count: i64,
+    /// The load-holding valve and valve centre (migration 0007).
+    #[sqlx(flatten)]
+    #[serde(flatten)]
+    pub valves: ValveFields,
+    /// The site's trapped-oil warming, K (`None`: the default).
+    pub site_trapped_oil_warming_k: Option<f64>,
 }
 
 /// The fields a client writes, SI.
@@ -65,6 +72,7 @@ pub struct CylinderFields {
     pub serial: Option<String>,
     pub notes: Option<String>,
     pub drift_test_interval_days: Option<i64>,
+    pub valves: ValveFields,
 }
 
 impl Cylinder {
@@ -88,6 +96,7 @@ impl Cylinder {
             serial: self.serial.clone(),
             notes: self.notes.clone(),
             drift_test_interval_days: self.drift_test_interval_days,
+            valves: self.valves.clone(),
         }
     }
 }
@@ -110,6 +119,10 @@ macro_rules! select_cylinder {
             c.max_load_n, c.holding_pressure_pa, c.rated_pressure_pa, c.tube_outside_diameter_m,
             c.tube_yield_pa, c.end_condition, c.serial, c.notes, c.drift_test_interval_days,
             c.min_load_n, c.buckling_length_m, c.rod_yield_pa, c.created_at, c.updated_at, c.archived_at,
+            c.holding_valve,
+            c.holding_valve_setting_pa, c.holding_valve_pilot_ratio, c.holding_valve_pilot,
+            c.cap_port_centre, c.rod_port_centre,
+            s.trapped_oil_warming_k AS site_trapped_oil_warming_k,
             (SELECT COUNT(*) FROM hoses h WHERE h.cylinder_id = c.id AND h.archived_at IS NULL)
                 AS hose_count
          FROM cylinders c JOIN machines m ON m.id = c.machine_id
@@ -215,6 +228,7 @@ pub async fn insert(
     .bind(at)
     .fetch_one(&mut *conn)
     .await?;
+    cylinder_valves::write(conn, id, &f.valves).await?;
     let cylinder = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("cylinder"))?;
@@ -278,6 +292,7 @@ pub async fn update(
     .bind(id)
     .execute(&mut *conn)
     .await?;
+    cylinder_valves::write(conn, id, &f.valves).await?;
     let after = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("cylinder"))?;

@@ -9,6 +9,7 @@ use std::time::Duration;
 
 // registry
 pub mod audit;
+pub mod cylinder_valves;
 pub mod cylinders;
 pub mod hoses;
 pub mod machines;

@@ -17,6 +17,8 @@ pub struct Site {
     pub updated_at: String,
     pub archived_at: Option<String>,
     pub machine_count: i64,
+    /// How much trapped oil may warm on this site, K (`None`: the default; migration 0007).
+    pub trapped_oil_warming_k: Option<f64>,
 }
 
 /// The fields a client writes.
@@ -24,6 +26,7 @@ pub struct Site {
 pub struct SiteFields {
     pub name: String,
     pub units: String,
+    pub trapped_oil_warming_k: Option<f64>,
 }
 
 impl Site {
@@ -31,11 +34,13 @@ impl Site {
         SiteFields {
             name: self.name.clone(),
             units: self.units.clone(),
+            trapped_oil_warming_k: self.trapped_oil_warming_k,
         }
     }
 }
 
 const SELECT_ONE: &str = "SELECT s.id, s.name, s.units, s.created_at, s.updated_at, s.archived_at,
+    s.trapped_oil_warming_k,
     (SELECT COUNT(*) FROM machines m WHERE m.site_id = s.id AND m.archived_at IS NULL)
         AS machine_count
     FROM sites s WHERE s.id = ?";
@@ -62,6 +67,7 @@ pub async fn list(
 ) -> Result<Page<Site>, sqlx::Error> {
     let rows = sqlx::query_as::<_, Site>(
         "SELECT s.id, s.name, s.units, s.created_at, s.updated_at, s.archived_at,
+            s.trapped_oil_warming_k,
             (SELECT COUNT(*) FROM machines m WHERE m.site_id = s.id AND m.archived_at IS NULL)
                 AS machine_count
          FROM sites s
@@ -88,10 +94,12 @@ pub async fn insert(
     fields: &SiteFields,
 ) -> Result<Site, WriteError> {
     let id: i64 = sqlx::query_scalar(
-        "INSERT INTO sites (name, units, created_at, updated_at) VALUES (?, ?, ?, ?) RETURNING id",
+        "INSERT INTO sites (name, units, trapped_oil_warming_k, created_at, updated_at)
+         VALUES (?, ?, ?, ?, ?) RETURNING id",
     )
     .bind(&fields.name)
     .bind(&fields.units)
+    .bind(fields.trapped_oil_warming_k)
     .bind(at)
     .bind(at)
     .fetch_one(&mut *conn)
@@ -116,10 +124,13 @@ pub async fn update(
         return Ok(before);
     }
     sqlx::query(
-        "UPDATE sites SET name = ?, units = ?, archived_at = ?, updated_at = ? WHERE id = ?",
+        "UPDATE sites SET name = ?, units = ?, trapped_oil_warming_k = ?, archived_at = ?,
+            updated_at = ?
+         WHERE id = ?",
     )
     .bind(&fields.name)
     .bind(&fields.units)
+    .bind(fields.trapped_oil_warming_k)
     .bind(&archived_at)
     .bind(super::now_rfc3339())
     .bind(id)
@@ -155,6 +166,7 @@ pub async fn check_usable(
 pub async fn all_active(db: &Db) -> Result<Vec<Site>, sqlx::Error> {
     sqlx::query_as::<_, Site>(
         "SELECT s.id, s.name, s.units, s.created_at, s.updated_at, s.archived_at,
+            s.trapped_oil_warming_k,
             (SELECT COUNT(*) FROM machines m WHERE m.site_id = s.id AND m.archived_at IS NULL)
                 AS machine_count
          FROM sites s WHERE s.archived_at IS NULL ORDER BY s.name",

@@ -36,6 +36,8 @@ pub struct CylinderPage {
     pub rated: String,
     pub tube: String,
     pub end_condition: String,
+    /// The recorded load-holding valve and valve centre, in words.
+    pub valves: String,
     pub serial: String,
     pub notes: String,
     pub drift_interval: String,
@@ -102,6 +104,7 @@ pub async fn show(
             .clone()
             .map(|e| e.replace('_', "–"))
             .unwrap_or_else(|| "not recorded (pinned–pinned assumed)".into()),
+        valves: crate::pages::valve_inputs::describe(&c.valves, units),
         serial: c.serial.clone().unwrap_or_default(),
         notes: c.notes.clone().unwrap_or_default(),
         drift_interval: c

@@ -4,6 +4,7 @@
 use super::ctx::PageCtx;
 use super::forms::{self, Builder, FormPage, Posted, Values};
 use super::page_error;
+use super::valve_inputs;
 use crate::api::cylinder_draft::{self, Draft};
 use crate::api::paging::{path_id, pick_units};
 use crate::app::AppState;
@@ -27,6 +28,15 @@ pub fn router() -> Router<AppState> {
 }
 
 const NUMBERS: &[&str] = &["drift_test_interval_days"];
+
+/// Every plain-number field of the form.
+fn numbers() -> Vec<&'static str> {
+    NUMBERS
+        .iter()
+        .chain(valve_inputs::NUMBERS)
+        .copied()
+        .collect()
+}
 
 pub(super) async fn load(state: &AppState, id: &str) -> Result<Cylinder, Response> {
     let id = path_id(id, "cylinder").map_err(page_error)?;
@@ -76,6 +86,7 @@ pub fn values(c: Option<&CylinderFields>, units: UnitSystem) -> Values {
     ] {
         v.insert(k.to_string(), s);
     }
+    valve_inputs::values(&mut v, &c.valves, units);
     v
 }
 
@@ -162,6 +173,7 @@ fn form(
         units,
     )
     .hint = "Of the rod steel, e.g. 490 MPa; left empty, 355 MPa is assumed (errs low)".into();
+    valve_inputs::add(&mut b, units);
     b.text("serial", "Serial number", "");
     b.number("drift_test_interval_days", "Drift test every", "Days");
     b.textarea("notes", "Notes");
@@ -254,7 +266,7 @@ async fn create(
         Ok(m) => m,
         Err(page) => return page,
     };
-    let map = posted.to_object(NUMBERS, None);
+    let map = posted.to_object(&numbers(), None);
     let base = Draft {
         machine_id: Some(m.id),
         ..Draft::default()
@@ -314,7 +326,7 @@ async fn edit(
     };
     let units = pick_units(None, m.site_units.as_deref());
     let before = values(Some(&c.fields()), units);
-    let map = posted.to_object(NUMBERS, Some(&before));
+    let map = posted.to_object(&numbers(), Some(&before));
     let saved = match cylinder_draft::read(&map, Draft::from(c.fields())) {
         Err(problems) => Err(problems),
         Ok((fields, _)) => save(&state, &actor, Some(c.id), &fields)

@@ -28,6 +28,7 @@ pub mod machine_page;
 pub mod machines;
 pub mod safety;
 pub mod sites;
+pub mod valve_inputs;
 
 // shop
 pub mod shop;

@@ -30,6 +30,8 @@ pub fn installed(c: &Cylinder) -> Installed {
         min_load: c.min_load_n,
         buckling_length: c.buckling_length_m,
         rod_yield: c.rod_yield_pa,
+        valves: c.valves.calc(),
+        temperature_rise: c.site_trapped_oil_warming_k,
     }
 }
 
@@ -94,6 +96,9 @@ pub struct Panel {
     pub runs_away: bool,
     pub bypass_pressure: String,
     pub bypass_factor: String,
+    /// What the valves or the stroke end make of a bypass (rests on its stop, sinks to tank,
+    /// creeps through a relieving valve), else empty.
+    pub bypass_note: &'static str,
     pub relief: String,
     pub rod_side: String,
     pub scenarios: Vec<&'static str>,
@@ -233,6 +238,12 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
         holding_end: end.as_str(),
         holding_pressure: p(report.holding.at(end)),
         runs_away: report.seal_bypass.outcome == Outcome::RunsAway,
+        bypass_note: match report.seal_bypass.outcome {
+            Outcome::RestsOnStop | Outcome::Sinks | Outcome::Creeps => {
+                report.seal_bypass.outcome.explanation()
+            }
+            Outcome::Intensifies | Outcome::RunsAway => "",
+        },
         bypass_pressure: report.seal_bypass.final_pressure.map(p).unwrap_or_default(),
         bypass_factor: report
             .seal_bypass

@@ -7,6 +7,7 @@ use crate::api::paging::path_id;
 use crate::api::sites as site_input;
 use crate::app::AppState;
 use crate::auth::Actor;
+use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::db::page::Window;
 use crate::db::sites::{self as store, Site, SiteFields};
 use crate::error::AppError;
@@ -45,6 +46,13 @@ fn inputs(values: &Values, errors: &FieldErrors) -> Vec<forms::Input> {
             ("us", "US (in, psi, lbf)"),
         ]),
     );
+    b.quantity(
+        "trapped_oil_warming",
+        "Trapped-oil warming to allow for",
+        Dimension::TemperatureChange,
+        UnitSystem::Metric,
+    )
+    .hint = "How much oil shut in a parked machine may warm here (sun, engine heat); blank: 10 degC, our default".into();
     b.finish()
 }
 
@@ -106,6 +114,7 @@ fn empty() -> SiteFields {
     SiteFields {
         name: String::new(),
         units: "metric".into(),
+        trapped_oil_warming_k: None,
     }
 }
 
@@ -144,6 +153,19 @@ fn values(site: &SiteFields) -> Values {
     let mut v = Values::new();
     v.insert("name".into(), site.name.clone());
     v.insert("units".into(), site.units.clone());
+    let units = if site.units == "us" {
+        UnitSystem::Us
+    } else {
+        UnitSystem::Metric
+    };
+    v.insert(
+        "trapped_oil_warming".into(),
+        forms::quantity_text(
+            site.trapped_oil_warming_k,
+            Dimension::TemperatureChange,
+            units,
+        ),
+    );
     v
 }
 

@@ -112,6 +112,7 @@ async fn load_fleet(conn: &mut SqliteConnection) -> Result<String, String> {
         let empty = SiteFields {
             name: String::new(),
             units: "metric".into(),
+            trapped_oil_warming_k: None,
         };
         let (fields, _) = site_input::read(&map, empty).map_err(|p| refused(&key, p))?;
         let site = sites::insert(conn, LOADER, &at, &fields)

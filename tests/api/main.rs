@@ -23,6 +23,7 @@ mod registry_fixtures;
 mod registry_forms;
 mod registry_pages;
 mod sites;
+mod valves;
 // shop
 mod drift_tests;
 mod inspections;

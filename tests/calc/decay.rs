@@ -83,3 +83,40 @@ fn a_steady_pressure_is_no_leak() {
         report.reasoning
     );
 }
+
+#[test]
+fn entrained_air_takes_up_part_of_a_cooling_and_of_a_leak() {
+    // 1 % air at atmospheric pressure in the cap end (7.854 L at full extension), 200 -> 170
+    // bar, cooled 2 K. Isothermal air (Boyle's law) at the mean 185 bar has the compliance
+    // f V p_atm / (p_atm + p)² (REFERENCES.md "Fluid properties": the gas term of the
+    // effective bulk modulus, gas modulus = absolute pressure); with the oil's V / K [C]:
+    // dp_thermal = alpha V dT / (V/K + f V p_atm/(p_atm + p)²).
+    let mut input = input();
+    input.entrained_air = 0.01;
+    let report = decay::analyse_decay(
+        &input,
+        &readings(200.0, 170.0, 40.0, 38.0),
+        UnitSystem::Metric,
+    )
+    .unwrap();
+    let v = std::f64::consts::PI * 0.01 / 4.0 * 1.0;
+    let (pa, p) = (101_325.0, 185e5);
+    let c = v / 1.5e9 + 0.01 * v * pa / ((pa + p) * (pa + p));
+    let thermal = 7e-4 * v * -2.0 / c;
+    close(
+        report.thermal_change,
+        thermal,
+        FIGURE,
+        "thermal change with air",
+    );
+    assert!(
+        report.thermal_change > -21e5,
+        "air softens the cooling's drop"
+    );
+    close(
+        report.leak_flow * 600.0,
+        -c * (-30e5 - thermal),
+        FIGURE,
+        "leaked volume with air",
+    );
+}

@@ -153,3 +153,41 @@ fn a_counterbalance_valve_stops_the_holding_end_at_its_setting() {
         report.cautions
     );
 }
+
+#[test]
+fn at_full_extension_a_pushing_load_warms_against_the_stop_and_cools_away_from_it() {
+    // x = L: the rod end holds no oil. Warming pushes the piston onto its stop, so the cap oil
+    // is held: K alpha dT (definition of the bulk modulus). Cooling lets the load sink freely:
+    // alpha x dT (common practice, REFERENCES.md "Trade facts") [C].
+    let dt = 4.0;
+    let h = analysis::analyse(&held_at(1.0, dt), UnitSystem::Metric)
+        .unwrap()
+        .heating;
+    close(h.cap_rise, K * ALPHA * dt, FIGURE, "held cap-end rise");
+    assert_eq!(h.piston_motion, 0.0);
+    let cooled = loadhold::calc::heating::free_piston(
+        &held_at(1.0, dt).cylinder,
+        &held_at(1.0, dt).trapped,
+        1.0,
+        ALPHA,
+        -dt,
+        loadhold::calc::heating::EndSetup {
+            pressure: 127e5,
+            open: false,
+            relief: None,
+        },
+        loadhold::calc::heating::EndSetup {
+            pressure: 0.0,
+            open: false,
+            relief: None,
+        },
+        false,
+    );
+    close(
+        cooled.motion,
+        -ALPHA * 1.0 * dt,
+        FIGURE,
+        "sinks by alpha x dT",
+    );
+    assert_eq!(cooled.cap_change, 0.0);
+}

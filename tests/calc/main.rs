@@ -10,6 +10,7 @@ mod circuit;
 mod decay;
 mod decision;
 mod diagnosis;
+mod diagnosis_ends;
 mod due;
 mod fluid;
 mod geometry;

@@ -48,11 +48,12 @@ pub fn site_field(name: &str) -> S {
         "name" => required_text(120),
         "units" => words(&["us", "metric"]),
         "archived" => nullable(boolean()),
+        "trapped_oil_warming" => nullable(quantity_in(D::TemperatureChange, false)),
         _ => any(),
     }
 }
 
-pub const SITE: &[&str] = &["name", "units", "archived"];
+pub const SITE: &[&str] = &["name", "units", "archived", "trapped_oil_warming"];
 
 pub const MACHINE: &[&str] = &[
     "unit_number",
@@ -115,6 +116,12 @@ pub const CYLINDER: &[&str] = &[
     "drift_test_interval_days",
     "archived",
     "units",
+    "holding_valve",
+    "holding_valve_setting",
+    "holding_valve_pilot_ratio",
+    "holding_valve_pilot",
+    "cap_port_centre",
+    "rod_port_centre",
 ];
 
 pub fn cylinder_field(name: &str) -> S {
@@ -139,6 +146,11 @@ pub fn cylinder_field(name: &str) -> S {
         "drift_test_interval_days" => opt_int(1, 3650),
         "archived" => nullable(boolean()),
         "units" => units(),
+        "holding_valve" => nullable(words(&["counterbalance", "pilot_check"])),
+        "holding_valve_setting" => opt_quantity_in(D::Pressure),
+        "holding_valve_pilot_ratio" => nullable(number_range(0.1, 1e12)),
+        "holding_valve_pilot" => nullable(words(&["other_port", "external"])),
+        "cap_port_centre" | "rod_port_centre" => nullable(words(&["blocked", "open_to_tank"])),
         _ => any(),
     }
 }

@@ -108,6 +108,9 @@ struct CylinderRow {
     min_load_n: Option<f64>,
     buckling_length_m: Option<f64>,
     rod_yield_pa: Option<f64>,
+    #[sqlx(flatten)]
+    valves: crate::db::cylinder_valves::ValveFields,
+    trapped_oil_warming_k: Option<f64>,
 }
 
 async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>, sqlx::Error> {
@@ -116,7 +119,9 @@ async fn cylinder_rows(db: &Db, filter: &FleetFilter) -> Result<Vec<CylinderRow>
             c.bore_m, c.rod_m, c.stroke_m, c.load_direction, c.max_load_n,
             c.holding_pressure_pa, c.rated_pressure_pa, m.relief_pressure_pa,
             c.tube_outside_diameter_m, c.tube_yield_pa, c.end_condition, c.min_load_n,
-            c.buckling_length_m, c.rod_yield_pa
+            c.buckling_length_m, c.rod_yield_pa, c.holding_valve,
+            c.holding_valve_setting_pa, c.holding_valve_pilot_ratio, c.holding_valve_pilot,
+            c.cap_port_centre, c.rod_port_centre, s.trapped_oil_warming_k
          FROM cylinders c
          JOIN machines m ON m.id = c.machine_id
          LEFT JOIN sites s ON s.id = m.site_id
@@ -160,6 +165,8 @@ fn input(c: &CylinderRow, hoses: &[&HoseRow]) -> Option<CylinderInput> {
         min_load: c.min_load_n,
         buckling_length: c.buckling_length_m,
         rod_yield: c.rod_yield_pa,
+        valves: c.valves.calc(),
+        temperature_rise: c.trapped_oil_warming_k,
     };
     let lines: Vec<RatedLine> = hoses
         .iter()

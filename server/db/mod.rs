@@ -11,6 +11,7 @@ use std::time::Duration;
 pub mod audit;
 pub mod cylinders;
 pub mod hoses;
+pub mod installed;
 pub mod machines;
 pub mod page;
 pub mod sites;

@@ -23,6 +23,7 @@ mod sites;
 // shop
 mod drift_tests;
 mod inspections;
+mod safety_sources;
 mod service_status;
 mod shop_history;
 mod shop_pages;

@@ -359,3 +359,79 @@ async fn a_free_text_name_is_kept_as_performed_by_beside_the_signing_account() {
     assert_eq!(t["performed_by"], "R. Okafor");
     assert_eq!(t["technician"], "R. Okafor");
 }
+
+#[tokio::test]
+async fn a_technician_reads_the_due_list_of_their_site_on_the_shop_and_lands_there() {
+    let s = shop().await;
+    let site = |name: &'static str| {
+        let admin = &s.admin;
+        async move {
+            let (status, body) = admin
+                .post_json("/api/v1/sites", &json!({"name": name, "units": "metric"}))
+                .await;
+            assert_eq!(status, StatusCode::CREATED, "{body}");
+            body["id"].as_i64().unwrap()
+        }
+    };
+    let (north, south) = (site("North").await, site("South").await);
+    for (unit, site) in [("N-1", north), ("S-1", south)] {
+        // A frequent inspection every 7 days, never made: due from the registration day
+        // (DEVELOPERS.md "Rules the code chose").
+        let (status, body) = s
+            .admin
+            .post_json(
+                "/api/v1/machines",
+                &json!({"unit_number": unit, "kind": "loader", "site_id": site,
+                        "frequent_interval_days": 7}),
+            )
+            .await;
+        assert_eq!(status, StatusCode::CREATED, "{body}");
+    }
+    sqlx::query("UPDATE users SET site_id = ? WHERE username = 'tech'")
+        .bind(north)
+        .execute(&s.admin.db)
+        .await
+        .unwrap();
+
+    let (status, due) = s.tech.get_json("/api/v1/reports/due").await;
+    assert_eq!(status, StatusCode::OK, "{due}");
+    let units: Vec<&str> = due["items"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|i| i["unit_number"].as_str().unwrap())
+        .collect();
+    assert_eq!(units, vec!["N-1"], "only the technician's site");
+    let (status, _) = s
+        .tech
+        .get_json(&format!("/api/v1/reports/due?site={south}"))
+        .await;
+    assert_eq!(status, StatusCode::FORBIDDEN, "another site's list");
+    let (status, _) = s.tech.get_json("/api/v1/reports/hazards").await;
+    assert_eq!(
+        status,
+        StatusCode::FORBIDDEN,
+        "other reports stay the managers'"
+    );
+
+    let (status, _, page) = s.tech.get_page("/shop").await;
+    assert_eq!(status, StatusCode::OK);
+    assert!(
+        page.contains("Due at North"),
+        "the work list names the site"
+    );
+    let work = &page[page.find("id=\"work-title\"").expect("the work list")..];
+    assert!(work.contains("N-1") && !work.contains("S-1"), "{work}");
+    assert!(
+        work.contains("/inspection\""),
+        "one tap from the inspection form"
+    );
+    let (_, headers, _) = s.tech.get_page("/").await;
+    assert_eq!(
+        headers["location"], "/shop",
+        "technicians start on the shop"
+    );
+    // The managers' view is the whole fleet.
+    let (_, due) = s.boss.get_json("/api/v1/reports/due").await;
+    assert_eq!(due["items"].as_array().unwrap().len(), 2);
+}

@@ -10,6 +10,7 @@ mod form_errors;
 mod http;
 mod manager;
 mod openapi;
+mod safety_loop;
 mod server;
 mod smoke;
 mod technician;

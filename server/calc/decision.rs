@@ -195,7 +195,7 @@ fn exceeding(f: &Findings, now: bool, units: UnitSystem) -> Found {
             );
             let restriction = (!now && worst(k)).then(|| {
                 format!(
-                    "Keep people clear of {} and do not leave the load held with the valve centred until it is replaced by one rated above {}.",
+                    "Keep people clear of {}; until it is replaced by one rated above {}, do not leave the load held with the valve centred and do not drive the cylinder against a blocked port or the end of its stroke.",
                     in_sentence(&k.component),
                     p(k.pressure, units)
                 )

@@ -18,7 +18,8 @@ use crate::pages::view::q;
 pub struct Danger {
     /// True when something is above or near a rating, or the load can run away.
     pub found: bool,
-    /// `exceeds`, `low_margin`, `ok` or `unknown` (for the word-and-shape badge).
+    /// `exceeds`, `low_margin`, `can_run_away`, `ok` or `unknown` (for the word-and-shape
+    /// badge).
     pub status: &'static str,
     pub headline: String,
     pub what_to_do: String,
@@ -79,7 +80,7 @@ pub fn worst(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Danger {
         };
     } else if report.seal_bypass.outcome == Outcome::RunsAway && input.load > 0.0 {
         danger.found = true;
-        danger.status = "low_margin";
+        danger.status = "can_run_away";
         danger.headline = "If the piston seal passes oil, this cylinder cannot hold a load that pulls its rod out: it runs out.".into();
         danger.what_to_do =
             "Block the load mechanically before anyone works beneath or beside it.".into();

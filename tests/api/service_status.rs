@@ -466,3 +466,77 @@ async fn a_failing_pressure_decay_test_removes_and_a_passing_one_makes_it_eligib
     assert_eq!(status, StatusCode::OK);
     assert_eq!(machine_status(&s.boss, machine).await.0, "in_service");
 }
+
+#[tokio::test]
+async fn the_status_history_is_append_only_and_shown_on_the_pages() {
+    let s = shop().await;
+    let (machine, cylinder) = loaded_cylinder(&s.admin, "LOOP-12").await;
+    record(&s.tech, cylinder, &drift("8 mm", json!({}))).await;
+    let update = sqlx::query("UPDATE status_changes SET reason = 'edited'")
+        .execute(&s.admin.db)
+        .await;
+    assert!(update.is_err(), "a status change cannot be edited");
+    let delete = sqlx::query("DELETE FROM status_changes")
+        .execute(&s.admin.db)
+        .await;
+    assert!(delete.is_err(), "nor deleted");
+    for path in [
+        format!("/machines/{machine}"),
+        format!("/cylinders/{cylinder}"),
+    ] {
+        let (status, _, page) = s.boss.get_page(&path).await;
+        assert_eq!(status, StatusCode::OK, "{path}");
+        assert!(page.contains("Status history"), "{path}");
+        assert!(page.contains("failed its limit"), "{path}: why");
+        assert!(page.contains("/shop/drift-tests/"), "{path}: which record");
+    }
+    let (_, _, page) = s.boss.get_page(&format!("/machines/{machine}")).await;
+    assert!(
+        page.contains("action=\"/machines/") && page.contains("return-to-service"),
+        "a manager sees the return form"
+    );
+    let (_, _, page) = s.tech.get_page(&format!("/machines/{machine}")).await;
+    assert!(!page.contains("return-form"), "a technician does not");
+}
+
+#[tokio::test]
+async fn the_cylinder_page_charts_each_scenario_against_each_rating_in_words_and_shapes() {
+    let s = shop().await;
+    let (_, cylinder) = loaded_cylinder(&s.admin, "LOOP-13").await;
+    // Rated 100 bar: holding is 63.66 bar (ok); the bypass, load over rod area
+    // = 50 kN / (pi/4 x 0.07^2 m^2) = 129.9 bar, is above it (force balance on the piston).
+    let (status, body) = s
+        .admin
+        .patch_json(
+            &format!("/api/v1/cylinders/{cylinder}"),
+            &json!({"rated_pressure": "100 bar"}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::OK, "{body}");
+    let (_, _, page) = s.boss.get_page(&format!("/cylinders/{cylinder}")).await;
+    let chart = &page[page.find("class=\"pressure-chart\"").expect("the chart")..];
+    assert!(chart.contains("<svg"), "server-side SVG");
+    assert!(chart.contains("Cylinder, rated 100 bar"), "{chart}");
+    assert!(
+        chart.contains("■ exceeds") && chart.contains("● ok"),
+        "status in words and shapes"
+    );
+    let (_, safety) = s
+        .boss
+        .get_json(&format!("/api/v1/cylinders/{cylinder}/safety"))
+        .await;
+    assert_eq!(safety["decision"], "restricted", "{safety}");
+    let bypass = safety["checks"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|k| k["scenario"] == "seal_bypass")
+        .expect("the bypass check");
+    assert_eq!(bypass["status"], "exceeds");
+    let p = bypass["pressure"]["si"].as_f64().unwrap();
+    assert!((p / 1e5 - 129.9).abs() < 0.02 * 129.9, "bypass {p}");
+    // The worst check is the highest pressure over the rating (trapped-oil warming may be
+    // higher still: about K alpha dT = 10.5 bar per K, REFERENCES.md "Fluid properties").
+    let worst = safety["worst"]["pressure"]["si"].as_f64().unwrap();
+    assert!(worst >= p, "worst {worst} against bypass {p}");
+}

@@ -59,3 +59,7 @@ CREATE TRIGGER status_changes_no_delete BEFORE DELETE ON status_changes
 BEGIN
     SELECT RAISE(ABORT, 'status history is append-only');
 END;
+
+-- The site a user works at (optional): a technician's shop work list shows that site's due
+-- items; with none set, every site's.
+ALTER TABLE users ADD COLUMN site_id INTEGER REFERENCES sites (id);

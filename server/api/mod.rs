@@ -47,6 +47,7 @@ pub mod report_rows;
 pub mod reports;
 
 // service status
+pub mod safety;
 pub mod service_status;
 
 /// Every JSON route. Add one `.merge(...)` line per module.
@@ -66,6 +67,7 @@ pub fn router() -> Router<AppState> {
         // reports
         .merge(reports::router())
         .merge(service_status::router())
+        .merge(safety::router())
         .merge(openapi::router()) // proof
         .route("/api/{*rest}", axum::routing::any(api_not_found))
 }

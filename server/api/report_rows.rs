@@ -304,12 +304,15 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             "cylinder_function": p.cylinder_function,
             "hose_id": p.hose_id,
             "scenario": p.scenario,
+            "scenario_words": scenario_words(p.scenario),
+            "scenarios_above": p.scenarios_above,
             "component": p.component,
             "exposure": p.exposure,
             "pressure": pressure(p.pressure_pa),
             "rating": pressure(p.rating_pa),
             "load": shown(Some(p.load_n), Dimension::Force, units),
         })).collect::<Vec<_>>(),
+        "by_machine": by_machine(h),
         "hoses": h.hoses.iter().map(hose_age_json).collect::<Vec<_>>(),
         "trends": h.trends.iter().map(|t| json!({
             "machine_id": t.machine_id,
@@ -331,6 +334,47 @@ pub fn hazards_json(h: &Hazards, as_of: Date, units: UnitSystem) -> Value {
             h.pressures.iter().any(|p| p.component == crate::calc::limits::RELIEF_SETTING),
         ),
     })
+}
+
+/// The pressure hazards grouped by machine (unit number order), each machine's lines worst
+/// first: `{machine_id, unit_number, site_name, components: [{cylinder_id, component,
+/// scenario, pressure_pa, rating_pa}]}`.
+fn by_machine(h: &Hazards) -> Vec<Value> {
+    let mut machines: Vec<(&str, i64)> = h
+        .pressures
+        .iter()
+        .map(|p| (p.unit_number.as_str(), p.machine_id))
+        .collect();
+    machines.sort_unstable();
+    machines.dedup();
+    machines
+        .into_iter()
+        .map(|(unit, id)| {
+            let lines: Vec<Value> = h
+                .pressures
+                .iter()
+                .filter(|p| p.machine_id == id)
+                .map(|p| {
+                    json!({
+                        "cylinder_id": p.cylinder_id,
+                        "cylinder_function": p.cylinder_function,
+                        "component": p.component,
+                        "hose_id": p.hose_id,
+                        "scenario": p.scenario,
+                        "scenario_words": scenario_words(p.scenario),
+                        "pressure_pa": p.pressure_pa,
+                        "rating_pa": p.rating_pa,
+                    })
+                })
+                .collect();
+            let site = h
+                .pressures
+                .iter()
+                .find(|p| p.machine_id == id)
+                .and_then(|p| p.site_name.clone());
+            json!({"machine_id": id, "unit_number": unit, "site_name": site, "components": lines})
+        })
+        .collect()
 }
 
 /// The hazard list as one CSV table, one row per hazard: `pressure`, `hose` or `drift_trend`.

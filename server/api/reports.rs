@@ -172,10 +172,32 @@ const DUE_PARAMS: &[&str] = &[
 
 /// `GET /api/v1/reports/due`: every item overdue or due within the window, furthest overdue
 /// first, as `{"items": [...]}` or CSV.
-async fn due(State(state): State<AppState>, params: Params) -> ApiResult<Response> {
+async fn due(
+    State(state): State<AppState>,
+    actor: crate::auth::Actor,
+    params: Params,
+) -> ApiResult<Response> {
     params.deny_unknown(DUE_PARAMS)?;
     let fmt = format(&params)?;
-    let query = due_query(&state, &params).await?;
+    let mut query = due_query(&state, &params).await?;
+    // A technician with a site reads that site's due list only.
+    if actor.role == crate::auth::Role::Technician
+        && let Some(uid) = actor.user_id
+    {
+        let site: Option<i64> =
+            sqlx::query_scalar("SELECT site_id FROM users WHERE id = ? AND site_id IS NOT NULL")
+                .bind(uid)
+                .fetch_optional(&state.db)
+                .await?;
+        if let Some(site) = site {
+            if query.filter.site_id.is_some_and(|asked| asked != site) {
+                return Err(AppError::Forbidden(
+                    "read another site's due list (your account works at another site)".into(),
+                ));
+            }
+            query.filter.site_id = Some(site);
+        }
+    }
     let items = reports::due_list(&state.db, &query).await?;
     Ok(match fmt {
         Format::Csv => csv_response("due", query.as_of, &report_rows::due_table(&items))?,

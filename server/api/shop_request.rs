@@ -101,7 +101,7 @@ pub async fn cylinder_request(
         .filter(|h| h.cylinder_id == Some(c.id))
         .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
             (Some(rating), Some(port)) => Some(json!({
-                "label": format!("H{} ({})", h.id, h.place()),
+                "label": crate::db::installed::hose_label(&h),
                 "port": port,
                 "rating": si(rating, D::Pressure),
             })),

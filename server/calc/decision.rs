@@ -159,10 +159,32 @@ fn one(text: &str, restriction: Option<&str>) -> Found {
     vec![(text.to_string(), restriction.map(str::to_string))]
 }
 
+/// A component's name inside a sentence: `hose H17 (...)`, `the cylinder`.
+fn in_sentence(component: &str) -> String {
+    let words = component_words(component);
+    match words.strip_prefix("Hose ") {
+        Some(rest) => format!("hose {rest}"),
+        None => format!("the {}", words.to_lowercase()),
+    }
+}
+
 fn exceeding(f: &Findings, now: bool, units: UnitSystem) -> Found {
-    f.checks
+    let over: Vec<&Check> = f
+        .checks
         .iter()
         .filter(|k| k.status == Status::Exceeds && f.present_now(k.scenario) == now)
+        .collect();
+    // The restriction is given once per component, with its worst pressure.
+    let worst = |k: &Check| {
+        !over
+            .iter()
+            .any(|o| o.component == k.component && o.pressure > k.pressure)
+            && over
+                .iter()
+                .position(|o| o.component == k.component && o.pressure == k.pressure)
+                == over.iter().position(|o| std::ptr::eq(*o, k))
+    };
+    over.iter()
         .map(|k| {
             let text = format!(
                 "{}: {} puts {} on it, above its rating of {}.",
@@ -171,10 +193,10 @@ fn exceeding(f: &Findings, now: bool, units: UnitSystem) -> Found {
                 p(k.pressure, units),
                 p(k.rating, units)
             );
-            let restriction = (!now).then(|| {
+            let restriction = (!now && worst(k)).then(|| {
                 format!(
-                    "Keep people clear of {} and do not leave the load held with the valve centred until it is replaced by one rated above {}.",
-                    component_words(&k.component).to_lowercase(),
+                    "Keep people clear of {}; until it is replaced by one rated above {}, do not leave the load held with the valve centred and do not drive the cylinder against a blocked port or the end of its stroke.",
+                    in_sentence(&k.component),
                     p(k.pressure, units)
                 )
             });

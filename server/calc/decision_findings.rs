@@ -9,7 +9,7 @@ use super::diagnosis::Diagnosis;
 use super::drift::{DriftReadings, DriftReport, Verdict};
 use super::error::CalcError;
 use super::quantity::UnitSystem;
-use super::ratings::{Exposure, Rating};
+use super::ratings::{Check, Exposure, Rating, Status};
 
 /// The ratings a reading on `exposure`'s end bears (that end's lines and the cylinder).
 fn bearing(ratings: &[Rating], end: Exposure) -> impl Iterator<Item = &Rating> {
@@ -151,4 +151,31 @@ pub fn findings_from_words(
         inspection: inspection.and_then(InspectionResult::parse),
         ..Findings::default()
     }
+}
+
+/// The findings of an installed cylinder with no record yet: its rated-pressure checks only
+/// (every scenario the analysis computed against every rating).
+pub fn standing(report: &CylinderReport) -> Findings {
+    Findings {
+        checks: report.checks.clone(),
+        ..Findings::default()
+    }
+}
+
+/// The worst of a cylinder's checks: any above its rating before any within the low margin,
+/// then the highest pressure as a share of its rating. `None` when every check is ok.
+pub fn worst_check(checks: &[Check]) -> Option<&Check> {
+    let rank = |s: Status| match s {
+        Status::Exceeds => 2,
+        Status::LowMargin => 1,
+        Status::Ok => 0,
+    };
+    checks
+        .iter()
+        .filter(|k| k.status != Status::Ok)
+        .max_by(|a, b| {
+            rank(a.status)
+                .cmp(&rank(b.status))
+                .then((a.pressure / a.rating).total_cmp(&(b.pressure / b.rating)))
+        })
 }

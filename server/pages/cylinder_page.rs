@@ -48,6 +48,8 @@ pub struct CylinderPage {
     pub hoses: Vec<HoseLine>,
     /// shop: the drift-test history with its chart.
     pub history: crate::pages::shop::history::HistoryPanel,
+    /// The cylinder's service status, open restrictions and status history.
+    pub service: super::service_view::ServicePanel,
 }
 
 /// `GET /cylinders/{id}`; `?units=us|metric` overrides the site's units.
@@ -76,7 +78,12 @@ pub async fn show(
         Ok(h) => h,
         Err(e) => return page_error(e),
     };
+    let service = match super::service_view::cylinder_panel(&state.db, c.machine_id, c.id).await {
+        Ok(panel) => panel,
+        Err(e) => return page_error(e.into()),
+    };
     CylinderPage {
+        service,
         ctx,
         id: c.id,
         machine_id: c.machine_id,

@@ -69,6 +69,8 @@ pub struct MachinePage {
     pub hoses: Vec<HoseLine>,
     /// What is due on the machine, its cylinders and hoses (filled by the reports work).
     pub due: Vec<super::report_views::DueLine>,
+    /// Service status: open restrictions, causes and their retests, the status history.
+    pub service: super::service_view::ServicePanel,
 }
 
 /// What a cylinder does (`Boom lift`), else `Cylinder <id>`.
@@ -162,6 +164,10 @@ pub async fn show(
         Ok(items) => items.iter().map(super::report_views::due_line).collect(),
         Err(e) => return page_error(e.into()),
     };
+    let service = match super::service_view::machine_panel(&state.db, id).await {
+        Ok(panel) => panel,
+        Err(e) => return page_error(e.into()),
+    };
     let units = pick_units(params.units().ok().flatten(), m.site_units.as_deref());
     let cylinders = cylinder_rows
         .iter()
@@ -214,6 +220,7 @@ pub async fn show(
         cylinders,
         hoses: hose_rows.iter().map(|h| hose_line(h, units)).collect(),
         due,
+        service,
     }
     .into_response()
 }

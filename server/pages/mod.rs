@@ -26,9 +26,15 @@ pub mod forms;
 pub mod hoses;
 pub mod machine_page;
 pub mod machines;
+pub mod pressure_chart;
 pub mod safety;
 pub mod sites;
 pub mod valve_inputs;
+
+// service status
+pub mod danger;
+pub mod service;
+pub mod service_view;
 
 // shop
 pub mod shop;
@@ -41,7 +47,7 @@ pub mod reports;
 /// Every page route. Add one `.merge(...)` line per module.
 pub fn router() -> Router<AppState> {
     Router::new()
-        .route("/", get(|| async { Redirect::to("/machines") }))
+        .route("/", get(start))
         .merge(assets::router())
         .merge(login::router()) // accounts
         .merge(admin::router()) // accounts
@@ -55,7 +61,17 @@ pub fn router() -> Router<AppState> {
         .merge(shop::router())
         // reports
         .merge(reports::router())
+        .merge(service::router())
         .fallback(not_found)
+}
+
+/// `GET /`: the shop's work list for technicians, the fleet list for everyone else.
+async fn start(ctx: ctx::PageCtx) -> Redirect {
+    if ctx.role == "technician" {
+        Redirect::to("/shop")
+    } else {
+        Redirect::to("/machines")
+    }
 }
 
 /// A page-level error: a short page in the site's layout with the right status.

@@ -32,6 +32,8 @@ pub struct OverviewPage {
     pub sites: Vec<SiteCount>,
     pub total_in: i64,
     pub total_out: i64,
+    /// Machines in service that a record restricted (`db::reports::fleet::restricted`).
+    pub restricted: Vec<crate::db::reports::fleet::Restricted>,
     pub due: Vec<DueLine>,
     pub due_total: usize,
     pub overdue_total: usize,
@@ -83,10 +85,11 @@ pub async fn overview(State(state): State<AppState>, ctx: PageCtx) -> Response {
             reports::due_list(&state.db, &query).await?,
             fleet::out_of_service(&state.db, &filter).await?,
             hazards::hazards(&state.db, &hazard_query).await?,
+            fleet::restricted(&state.db, &filter).await?,
         ))
     }
     .await;
-    let (counts, due, out, found) = match loaded {
+    let (counts, due, out, found, restricted) = match loaded {
         Ok(all) => all,
         Err(e) => return page_error(e),
     };
@@ -97,6 +100,7 @@ pub async fn overview(State(state): State<AppState>, ctx: PageCtx) -> Response {
         head: header(as_of, &filter, &[], "due", &pairs),
         total_in: sites.iter().map(|s| s.in_service).sum(),
         total_out: sites.iter().map(|s| s.out_of_service).sum(),
+        restricted,
         sites,
         due_total: due.len(),
         overdue_total: due.iter().filter(|i| i.due.overdue).count(),

@@ -238,6 +238,11 @@ pub fn out_line(o: &OutOfService) -> OutLine {
             o.change_at.as_deref().unwrap_or("?"),
             o.change_by.as_deref().unwrap_or("?")
         ),
+        kind @ ("drift_test" | "decay_test") => format!(
+            "{} #{}",
+            kind.replace('_', " "),
+            o.status_record_id.unwrap_or_default()
+        ),
         _ => "not on file".into(),
     };
     OutLine {
@@ -264,6 +269,11 @@ pub struct PressureLine {
     pub rating: String,
     /// The load behind the pressure (the worst of the recorded range).
     pub load: String,
+    /// Every other scenario above the rating, in words.
+    pub also: Vec<&'static str>,
+    /// True on the first line of each machine (the list is grouped by machine).
+    pub first_of_machine: bool,
+    pub site: String,
 }
 
 pub fn pressure_line(p: &PressureHazard, units: UnitSystem) -> PressureLine {
@@ -281,7 +291,27 @@ pub fn pressure_line(p: &PressureHazard, units: UnitSystem) -> PressureLine {
         pressure: q(Some(p.pressure_pa), Dimension::Pressure, units),
         rating: q(Some(p.rating_pa), Dimension::Pressure, units),
         load: q(Some(p.load_n), Dimension::Force, units),
+        also: p
+            .scenarios_above
+            .iter()
+            .skip(1)
+            .map(|s| scenario_words(s))
+            .collect(),
+        first_of_machine: false,
+        site: p.site_name.clone().unwrap_or_default(),
     }
+}
+
+/// The pressure lines grouped by machine (unit number order; each machine's lines keep the
+/// list's worst-first order), the first line of each marked.
+pub fn by_machine(mut lines: Vec<PressureLine>) -> Vec<PressureLine> {
+    lines.sort_by(|a, b| a.unit_number.cmp(&b.unit_number));
+    let mut last = None;
+    for line in &mut lines {
+        line.first_of_machine = last != Some(line.machine_id);
+        last = Some(line.machine_id);
+    }
+    lines
 }
 
 /// A drift trend reaching its limit, in words.

@@ -174,6 +174,8 @@ pub struct OutPage {
     pub head: Header,
     pub form: FilterForm,
     pub lines: Vec<OutLine>,
+    /// Machines in service under a restriction a record set.
+    pub restricted: Vec<crate::db::reports::fleet::Restricted>,
 }
 
 async fn out_of_service(State(state): State<AppState>, ctx: PageCtx, params: Params) -> Response {
@@ -188,6 +190,7 @@ async fn out_of_service(State(state): State<AppState>, ctx: PageCtx, params: Par
         head: header(api::today(), &filter, &all, "out-of-service", &[]),
         form: views::filter_form("", "", "", &filter, &all, &kinds),
         lines: Vec::new(),
+        restricted: Vec::new(),
     };
     if let Err(error) = parsed {
         page.head.problem = error.parts().1;
@@ -195,6 +198,10 @@ async fn out_of_service(State(state): State<AppState>, ctx: PageCtx, params: Par
     }
     match fleet::out_of_service(&state.db, &filter).await {
         Ok(items) => page.lines = items.iter().map(views::out_line).collect(),
+        Err(e) => return page_error(e.into()),
+    }
+    match fleet::restricted(&state.db, &filter).await {
+        Ok(items) => page.restricted = items,
         Err(e) => return page_error(e.into()),
     }
     page.into_response()
@@ -276,11 +283,13 @@ async fn hazard_page(State(state): State<AppState>, ctx: PageCtx, params: Params
         (Ok(f), Ok(s)) => (f, s),
         (Err(e), _) | (_, Err(e)) => return page_error(e.into()),
     };
-    page.pressures = found
-        .pressures
-        .iter()
-        .map(|p| views::pressure_line(p, units))
-        .collect();
+    page.pressures = views::by_machine(
+        found
+            .pressures
+            .iter()
+            .map(|p| views::pressure_line(p, units))
+            .collect(),
+    );
     page.hoses = found.hoses.iter().map(views::hose_line).collect();
     page.trends = found
         .trends

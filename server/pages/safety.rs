@@ -5,7 +5,7 @@
 use crate::calc::analysis::{self, CylinderInput, CylinderReport};
 use crate::calc::buckling::{BucklingReport, Range};
 use crate::calc::bypass::Outcome;
-use crate::calc::installed::{self, Installed, LoadSource, RatedLine};
+use crate::calc::installed::LoadSource;
 use crate::calc::quantity::{Dimension, UnitSystem};
 use crate::calc::ratings::{Exposure, Status};
 use crate::calc::{limits, worst_load};
@@ -13,49 +13,9 @@ use crate::db::cylinders::Cylinder;
 use crate::db::hoses::Hose;
 use crate::pages::view::q;
 
-/// What the registry stores of a cylinder and its machine, as the core's installed cylinder.
-pub fn installed(c: &Cylinder) -> Installed {
-    Installed {
-        bore: c.bore_m,
-        rod: c.rod_m,
-        stroke: c.stroke_m,
-        load_direction: c.load_direction.clone(),
-        max_load: c.max_load_n,
-        holding_pressure: c.holding_pressure_pa,
-        relief_pressure: c.machine_relief_pressure_pa,
-        rated_pressure: c.rated_pressure_pa,
-        tube_outside_diameter: c.tube_outside_diameter_m,
-        tube_yield: c.tube_yield_pa,
-        end_condition: c.end_condition.clone(),
-        min_load: c.min_load_n,
-        buckling_length: c.buckling_length_m,
-        rod_yield: c.rod_yield_pa,
-        valves: c.valves.calc(),
-        temperature_rise: c.site_trapped_oil_warming_k,
-    }
-}
+pub use crate::db::installed::{hose_label, installed, rated_lines};
 
-/// A hose's name in the panel: `H17 (cap port, SAE 100R2AT, -8)`.
-pub fn hose_label(h: &Hose) -> String {
-    installed::line_label(h.id, &h.place(), h.spec.as_deref(), h.size.as_deref())
-}
-
-/// The rated hoses fitted to a port of the cylinder.
-pub fn rated_lines(hoses: &[&Hose]) -> Vec<RatedLine> {
-    hoses
-        .iter()
-        .filter_map(|h| match (h.working_pressure_pa, h.port.as_deref()) {
-            (Some(rating), Some(port)) => Some(RatedLine {
-                label: hose_label(h),
-                port: port.to_string(),
-                rating,
-            }),
-            _ => None,
-        })
-        .collect()
-}
-
-/// The engineering core's input for a registry cylinder ([`Installed::input`]).
+/// The engineering core's input for a registry cylinder ([`crate::calc::installed::Installed::input`]).
 pub fn input(c: &Cylinder, hoses: &[&Hose]) -> Result<(CylinderInput, LoadSource), String> {
     installed(c)
         .input(&rated_lines(hoses))
@@ -114,6 +74,12 @@ pub struct Panel {
     pub cautions: Vec<&'static str>,
     /// `ok`, `low_margin` or `exceeds`: the worst status of any check.
     pub worst: &'static str,
+    /// The decision the figures alone call for (`calc::decision`), first on the page.
+    pub decision: &'static str,
+    pub decision_words: &'static str,
+    pub restrictions: Vec<String>,
+    /// Each scenario's pressure against each rating, as a chart.
+    pub chart: super::pressure_chart::PressureChart,
 }
 
 /// The worst status of the checks that decide it ([`limits::decides_status`]: a
@@ -136,17 +102,15 @@ fn worst(input: &CylinderInput, report: &CylinderReport) -> Status {
     }
 }
 
-/// Runs the engineering core for a registry cylinder. Rod buckling is checked only when the
-/// cylinder's mounting (end condition) is recorded ([`Installed::input`]).
+/// Runs the engineering core for a registry cylinder ([`crate::db::installed::analyse`]).
+/// Rod buckling is checked only when the cylinder's mounting (end condition) is recorded
+/// ([`crate::calc::installed::Installed::input`]).
 pub fn analyse(
     c: &Cylinder,
     hoses: &[&Hose],
     units: UnitSystem,
 ) -> Result<(CylinderInput, LoadSource, CylinderReport), String> {
-    let (input, source) = input(c, hoses)?;
-    let report =
-        analysis::analyse(&input, units).map_err(|e| format!("{}: {}", e.field, e.message))?;
-    Ok((input, source, report))
+    crate::db::installed::analyse(c, hoses, units)
 }
 
 /// The worst status of a cylinder's checks (`ok`, `low_margin`, `exceeds`), or `unknown` when
@@ -217,7 +181,13 @@ pub fn panel(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Panel {
         .filter(|h| h.working_pressure_pa.is_none() && h.port.is_some())
         .map(|h| hose_label(h))
         .collect();
+    let ruling =
+        crate::calc::decision::decide(&crate::calc::decision_findings::standing(&report), units);
     Panel {
+        decision: ruling.decision.as_str(),
+        decision_words: ruling.decision.words(),
+        restrictions: ruling.restrictions(),
+        chart: super::pressure_chart::chart(&input, &report, units),
         error: None,
         load: q(Some(input.load), Dimension::Force, units),
         load_source: match source {

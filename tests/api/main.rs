@@ -27,6 +27,7 @@ mod valves;
 // shop
 mod drift_tests;
 mod inspections;
+mod safety_sources;
 mod service_status;
 mod shop_history;
 mod shop_pages;

@@ -96,7 +96,19 @@ async fn the_drift_test_form_stores_once_and_shows_the_analysis_on_the_spot() {
     let (status, _, shown) = app.get_page(&first).await;
     assert_eq!(status, StatusCode::OK);
     assert!(shown.contains("Sam Teller"), "signed by the technician");
-    assert!(shown.contains("tag-ok"), "a pass shown by word and shape");
+    // The decision comes first, by word and shape; the limit's verdict follows in words.
+    let decision = shown
+        .find("<h2 id=\"verdict-title\">Decision</h2>")
+        .expect("decision");
+    let verdict = shown.find("Against the limit").expect("verdict in words");
+    assert!(decision < verdict, "the decision comes before the verdict");
+    assert!(
+        ["Fit for service", "Restricted use", "Remove from service"]
+            .iter()
+            .any(|d| shown.contains(d)),
+        "a decision in words"
+    );
+    assert!(shown.contains("class=\"shape\""), "and a shape");
     assert!(shown.contains("Within the limit"));
     assert!(
         shown.contains("<ol class=\"reasoning\"><li>"),
@@ -365,7 +377,7 @@ async fn a_technician_records_a_test_signed_with_their_login_name() {
     );
     let (_, _, shown) = tech.get_page(&location(&headers)).await;
     assert!(
-        shown.contains("Signed by <strong>tech1</strong>"),
+        shown.contains("Signed by the account <strong>tech1</strong>"),
         "{shown}"
     );
 }

@@ -11,6 +11,7 @@ mod hardening;
 mod http;
 mod manager;
 mod openapi;
+mod safety_loop;
 mod server;
 mod smoke;
 mod technician;

@@ -108,10 +108,22 @@ async fn a_technician_finds_the_unit_enters_a_drift_test_and_reads_the_verdict()
         .parse()
         .expect("record id in the address");
 
-    // The verdict, in words and with a shape, as the technician reads it.
+    // The decision first, in words and with a shape; then the verdict and the cause in words.
+    let decision = b
+        .find("p.verdict.decision")
+        .await
+        .text()
+        .await
+        .unwrap_or_default();
+    assert!(
+        ["Fit for service", "Restricted use", "Remove from service"]
+            .iter()
+            .any(|d| decision.contains(d)),
+        "a decision in words: {decision}"
+    );
     let verdicts: Vec<String> = {
         let mut out = Vec::new();
-        for e in b.find_all("p.verdict").await {
+        for e in b.find_all("p.result-line").await {
             out.push(e.text().await.unwrap_or_default());
         }
         out

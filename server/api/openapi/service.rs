@@ -93,5 +93,40 @@ pub fn operations() -> Vec<Op> {
                 ("items", array(change())),
             ]),
         ),
+        Op::get(
+            "/api/v1/cylinders/{id}/safety",
+            "service",
+            "Every scenario against every rating, with status, decision and cautions",
+        )
+        .query(
+            "units",
+            words(&["us", "metric"]),
+            "Display units of the answer's quantities.",
+        )
+        .errors(&[409])
+        .ok(
+            200,
+            "The cylinder's safety figures.",
+            object(
+                vec![
+                    ("cylinder_id", id()),
+                    ("machine_id", id()),
+                    ("scenarios", array(any())),
+                    ("ratings", array(any())),
+                    ("checks", array(any())),
+                    ("worst", any()),
+                    (
+                        "decision",
+                        words(&["fit_for_service", "restricted", "remove_from_service"]),
+                    ),
+                    ("reasons", array(string())),
+                    ("restrictions", array(string())),
+                    ("hazards", array(string())),
+                    ("cautions", array(string())),
+                    ("service", any()),
+                ],
+                &["cylinder_id", "checks", "decision", "reasons", "cautions"],
+            ),
+        ),
     ]
 }

@@ -1,18 +1,18 @@
-//! The hazard list: cylinders where a scenario (at the worst load of the recorded range)
-//! puts a pressure above a rating on their circuit, or, on an end with no rating, above the
-//! machine's relief setting; hoses past their replace-by date or
+//! The hazard list: cylinders where any scenario of the analysis (at the worst load of the
+//! recorded range) puts a rated component above its rating, or, on an end with no rating, above
+//! the machine's relief setting, one line per component at its worst scenario; hoses past their replace-by date or
 //! older than the shop's age limit; cylinders whose drift trend reaches its limit within the
 //! window. Three queries for the whole fleet (cylinders, hoses, drift tests); the figures come
 //! from the engineering core (`calc::analysis`, `calc::trend`).
 
 use super::hoses::{self, HoseAge, HoseRow, HoseScope};
 use super::{FleetFilter, day_of};
-use crate::calc::analysis::{self, CylinderInput, ROD_SIDE_INTENSIFICATION};
+use crate::calc::analysis::{self, CylinderInput};
 use crate::calc::due::add_days;
 use crate::calc::installed::{self, Installed, RatedLine};
 use crate::calc::limits;
 use crate::calc::quantity::UnitSystem;
-use crate::calc::ratings::{Exposure, Status};
+use crate::calc::ratings::{Check, Status};
 use crate::calc::trend::{self, Crossing, Sample};
 use crate::db::Db;
 use serde::Serialize;
@@ -38,10 +38,12 @@ pub struct PressureHazard {
     pub site_name: Option<String>,
     pub cylinder_id: i64,
     pub cylinder_function: Option<String>,
-    /// The scenario (`normal_holding`, `seal_bypass`, `rod_side_intensification`,
-    /// `trapped_oil_heating`) whose pressure is above the component's rating, or
-    /// `relief_setting` (a cap-line rating below the relief setting itself).
+    /// The scenario that puts the highest pressure on the component over its rating, named as
+    /// the analysis names it (`seal_bypass`, `rod_side_intensification`,
+    /// `trapped_oil_heating`, `normal_holding`, or any scenario the core adds).
     pub scenario: &'static str,
+    /// Every scenario that puts the component above its rating, worst first.
+    pub scenarios_above: Vec<&'static str>,
     /// `cylinder`, the hose's label (`H12 (cap port, SAE 100R2AT)`), or `relief_setting` (an
     /// end with no rating recorded, whose pressure is above the machine's relief setting).
     pub component: String,
@@ -182,6 +184,10 @@ fn input(c: &CylinderRow, hoses: &[&HoseRow]) -> Option<CylinderInput> {
     cylinder.input(&lines).ok().map(|(input, _)| input)
 }
 
+/// The pressures above a rating of one cylinder: every scenario the analysis computed, with
+/// one line per rated component at its worst scenario (the highest pressure over rating),
+/// exactly as the cylinder page's safety panel and `GET /api/v1/cylinders/{id}/safety`
+/// compute them.
 fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> {
     let Some(input) = input(c, hoses) else {
         return Vec::new();
@@ -189,59 +195,59 @@ fn pressure_hazards(c: &CylinderRow, hoses: &[&HoseRow]) -> Vec<PressureHazard> 
     let Ok(report) = analysis::analyse(&input, UnitSystem::Metric) else {
         return Vec::new();
     };
-    // Every scenario, at the worst load of the range; a relief-setting check only on an end
-    // with no rating (where a rating is recorded, the rating decides: limits::decides_status).
-    report
+    // Every scenario at the worst load of the range; a relief-setting check counts only on an
+    // end with no rating (where a rating is recorded, the rating decides:
+    // limits::decides_status). One line per component (and, for the relief setting, per end)
+    // at its worst scenario, with every other scenario above it listed.
+    let deciding: Vec<&Check> = report
         .checks
         .iter()
-        .filter(|k| k.status == Status::Exceeds)
-        .filter(|k| limits::decides_status(k, &input.ratings))
-        .map(|k| (k, relabel(&input, k.scenario, &k.component)))
-        .map(|(k, scenario)| PressureHazard {
+        .filter(|k| k.status == Status::Exceeds && limits::decides_status(k, &input.ratings))
+        .collect();
+    let mut components: Vec<(&str, &'static str)> = Vec::new();
+    for k in &deciding {
+        let key = (k.component.as_str(), k.exposure.as_str());
+        if !components.contains(&key) {
+            components.push(key);
+        }
+    }
+    let mut out: Vec<PressureHazard> = Vec::new();
+    for (component, exposure) in components {
+        let mut above: Vec<&Check> = deciding
+            .iter()
+            .copied()
+            .filter(|k| k.component == component && k.exposure.as_str() == exposure)
+            .collect();
+        above.sort_by(|a, b| (b.pressure / b.rating).total_cmp(&(a.pressure / a.rating)));
+        let Some(worst) = above.first() else {
+            continue;
+        };
+        out.push(PressureHazard {
             machine_id: c.machine_id,
             unit_number: c.unit_number.clone(),
             site_id: c.site_id,
             site_name: c.site_name.clone(),
             cylinder_id: c.id,
             cylinder_function: c.function.clone(),
-            scenario,
-            component: k.component.clone(),
-            exposure: k.exposure.as_str(),
+            scenario: worst.scenario,
+            scenarios_above: above.iter().map(|k| k.scenario).collect(),
+            component: worst.component.clone(),
+            exposure: worst.exposure.as_str(),
             hose_id: hoses
                 .iter()
-                .find(|h| hose_label(h) == k.component)
+                .find(|h| hose_label(h) == worst.component)
                 .map(|h| h.id),
-            pressure_pa: k.pressure,
-            rating_pa: k.rating,
-            load_n: k.load,
-        })
-        .collect()
-}
-
-/// In the rod-side scenario the cap end stands at the relief setting itself; a cap-line
-/// component over its rating there is named [`RELIEF_SETTING`], not rod-side intensification.
-fn relabel(input: &CylinderInput, scenario: &'static str, component: &str) -> &'static str {
-    let cap_line = input
-        .ratings
-        .iter()
-        .any(|r| r.component == component && r.exposure == Exposure::Cap);
-    if scenario == ROD_SIDE_INTENSIFICATION && cap_line {
-        RELIEF_SETTING
-    } else {
-        scenario
+            pressure_pa: worst.pressure,
+            rating_pa: worst.rating,
+            load_n: worst.load,
+        });
     }
+    out
 }
 
-/// A cap-line rating below the machine's relief setting (seen in the rod-side scenario).
-pub const RELIEF_SETTING: &str = "relief_setting";
-
-/// A hazard's scenario in words, for pages and CSV.
+/// A hazard's scenario in words, for pages and CSV (the analysis's own words).
 pub fn scenario_words(scenario: &str) -> &'static str {
-    if scenario == RELIEF_SETTING {
-        "the relief setting on the cap end"
-    } else {
-        analysis::scenario_words(scenario)
-    }
+    analysis::scenario_words(scenario)
 }
 
 /// A drift test on a cylinder's trend.

@@ -31,6 +31,14 @@ pub struct CylinderShopPage {
     pub drift_procedures: Vec<ProcedureView>,
     pub decay_procedures: Vec<ProcedureView>,
     pub history: HistoryPanel,
+    /// The worst hazard in words, shown before the test buttons.
+    pub danger: crate::pages::danger::Danger,
+    pub danger_id: i64,
+    pub danger_for: String,
+    /// The cylinder's service status and open restrictions; the machine's status.
+    pub service: crate::pages::service_view::ServicePanel,
+    pub machine_status: String,
+    pub machine_status_words: &'static str,
 }
 
 /// `GET /shop/cylinders/{id}`.
@@ -55,6 +63,22 @@ pub async fn show(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<St
         Ok(h) => h,
         Err(e) => return page_error(e),
     };
+    let hoses = match crate::db::hoses::of_machine(&state.db, c.machine_id).await {
+        Ok(h) => h,
+        Err(e) => return page_error(e.into()),
+    };
+    let fitted: Vec<&crate::db::hoses::Hose> = hoses
+        .iter()
+        .filter(|h| h.cylinder_id == Some(c.id))
+        .collect();
+    let service = match crate::pages::service_view::cylinder_panel(&state.db, m.id, c.id).await {
+        Ok(panel) => panel,
+        Err(e) => return page_error(e.into()),
+    };
+    let machine = match crate::pages::service_view::machine_panel(&state.db, m.id).await {
+        Ok(panel) => panel,
+        Err(e) => return page_error(e.into()),
+    };
     let decay_procedures = views.pop().unwrap_or_default();
     let drift_procedures = views.pop().unwrap_or_default();
     CylinderShopPage {
@@ -69,6 +93,12 @@ pub async fn show(State(state): State<AppState>, ctx: PageCtx, Path(id): Path<St
         drift_procedures,
         decay_procedures,
         history,
+        danger: crate::pages::danger::worst(&c, &fitted, units),
+        danger_id: c.id,
+        danger_for: String::new(),
+        service,
+        machine_status: machine.status.clone(),
+        machine_status_words: machine.status_words,
     }
     .into_response()
 }

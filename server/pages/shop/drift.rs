@@ -61,12 +61,22 @@ async fn context(
     let (cylinder, machine) = load_cylinder(state, id).await?;
     let (procedures, procedure_id) =
         procedures_for(state, (&cylinder, &machine), "drift", procedure).await?;
+    let hoses = crate::db::hoses::of_machine(&state.db, cylinder.machine_id)
+        .await
+        .map_err(|e| crate::pages::page_error(e.into()))?;
+    let fitted: Vec<&crate::db::hoses::Hose> = hoses
+        .iter()
+        .filter(|h| h.cylinder_id == Some(cylinder.id))
+        .collect();
+    let danger =
+        crate::pages::danger::worst(&cylinder, &fitted, super::drift_page::units_of(&cylinder));
     Ok(Context {
         cylinder,
         machine,
         procedures,
         procedure_id,
         amends,
+        danger,
     })
 }
 

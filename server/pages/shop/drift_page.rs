@@ -22,6 +22,10 @@ use askama_web::WebTemplate;
 #[template(path = "shop/drift_form.html")]
 pub struct DriftFormPage {
     pub ctx: PageCtx,
+    /// The cylinder's worst hazard, before the form (`service/danger.html`).
+    pub danger: crate::pages::danger::Danger,
+    pub danger_id: i64,
+    pub danger_for: String,
     pub cylinder_id: i64,
     pub machine_id: i64,
     pub unit_number: String,
@@ -131,14 +135,19 @@ pub struct Context {
     pub procedures: Vec<Procedure>,
     pub procedure_id: Option<i64>,
     pub amends: Option<i64>,
+    /// The cylinder's worst hazard, stated above the form.
+    pub danger: crate::pages::danger::Danger,
 }
 
 pub fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> DriftFormPage {
     let cyl = &c.cylinder;
     let units = units_of(cyl);
     let mut who = Fields::new(values, errors, units);
-    who.text("technician", "Technician (signs the record)")
-        .required = true;
+    who.text(
+        "technician",
+        "Performed by (your login signs the record; name who did the test if someone else)",
+    )
+    .required = true;
     who.datetime("tested_at", "Time of test (UTC)").hint =
         "Leave as it is for a test done now.".into();
     let mut movement = Fields::new(values, errors, units);
@@ -209,6 +218,9 @@ pub fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) ->
         .collect();
     DriftFormPage {
         ctx,
+        danger: c.danger.clone(),
+        danger_id: cyl.id,
+        danger_for: String::new(),
         cylinder_id: cyl.id,
         machine_id: cyl.machine_id,
         unit_number: cyl.unit_number.clone(),

@@ -36,6 +36,10 @@ pub struct IndexPage {
     pub q: String,
     pub tiles: Vec<Tile>,
     pub more: bool,
+    /// What is due and overdue at the user's site (every site without one), nearest first.
+    pub work: Vec<super::worklist::WorkItem>,
+    /// The site's name, empty for every site.
+    pub work_site: String,
 }
 
 #[derive(Debug, Default, Deserialize)]
@@ -47,6 +51,7 @@ pub struct Search {
 pub async fn index(
     State(state): State<AppState>,
     ctx: PageCtx,
+    actor: crate::auth::Actor,
     Query(search): Query<Search>,
 ) -> Response {
     let q = search.q.unwrap_or_default().trim().to_string();
@@ -71,9 +76,19 @@ pub async fn index(
         let target = format!("/shop/machines/{}", m.id);
         return (StatusCode::SEE_OTHER, [(LOCATION, target)]).into_response();
     }
+    let (work, work_site) = if q.is_empty() {
+        match super::worklist::work_list(&state.db, actor.user_id).await {
+            Ok(found) => found,
+            Err(e) => return page_error(e.into()),
+        }
+    } else {
+        (Vec::new(), None)
+    };
     IndexPage {
         ctx,
         q,
+        work,
+        work_site: work_site.unwrap_or_default(),
         more: page.next_cursor.is_some(),
         tiles: page
             .items
@@ -96,6 +111,11 @@ pub struct CylinderTile {
     pub id: i64,
     pub function: String,
     pub size: String,
+    /// The cylinder's worst hazard in words (shown before any form).
+    pub danger: crate::pages::danger::Danger,
+    /// The last test's decision (`fit_for_service`, `restricted`, `remove_from_service`).
+    pub last_decision: String,
+    pub last_decision_words: String,
     pub last_verdict: String,
     pub last_diagnosis: String,
     pub last_at: String,
@@ -129,6 +149,10 @@ pub struct MachinePage {
     pub hour_meter: String,
     pub cylinders: Vec<CylinderTile>,
     pub inspections: Vec<InspectionLine>,
+    /// The machine's service status, open restrictions and history.
+    pub service: crate::pages::service_view::ServicePanel,
+    /// True when any cylinder has a hazard (the cautions are then shown with them).
+    pub any_danger: bool,
 }
 
 /// `GET /shop/machines/{id}`.
@@ -146,17 +170,45 @@ pub async fn machine(
         Ok(list) => list,
         Err(e) => return page_error(e.into()),
     };
+    let machine_hoses = match crate::db::hoses::of_machine(&state.db, m.id).await {
+        Ok(h) => h,
+        Err(e) => return page_error(e.into()),
+    };
+    let service = match crate::pages::service_view::machine_panel(&state.db, m.id).await {
+        Ok(panel) => panel,
+        Err(e) => return page_error(e.into()),
+    };
     let mut tiles = Vec::new();
     for c in &list {
+        let fitted: Vec<&crate::db::hoses::Hose> = machine_hoses
+            .iter()
+            .filter(|h| h.cylinder_id == Some(c.id))
+            .collect();
         let tests = match drift_tests::of_cylinder(&state.db, c.id).await {
             Ok(t) => t,
             Err(e) => return page_error(e.into()),
         };
         let last = tests.iter().rev().find(|t| t.in_force());
+        let decided = last.map(|t| {
+            crate::api::decision_answer::of_record(
+                t.decision.as_deref(),
+                t.decision_json.as_deref(),
+                (Some(&t.verdict), Some(&t.diagnosis), None),
+            )
+        });
+        let word = |key: &str| {
+            decided
+                .as_ref()
+                .and_then(|d| d[key].as_str().map(str::to_string))
+                .unwrap_or_default()
+        };
         tiles.push(CylinderTile {
             id: c.id,
             function: function_text(c),
             size: size_text(c, units),
+            danger: crate::pages::danger::worst(c, &fitted, units),
+            last_decision: word("decision"),
+            last_decision_words: word("decision_words"),
             last_verdict: last.map(|t| t.verdict.clone()).unwrap_or_default(),
             last_diagnosis: last.map(|t| t.diagnosis.clone()).unwrap_or_default(),
             last_at: last.map(|t| when(&t.tested_at)).unwrap_or_default(),
@@ -180,8 +232,10 @@ pub async fn machine(
             (Some(h), None) => format!("{h} h"),
             _ => "not recorded".into(),
         },
+        any_danger: tiles.iter().any(|t| t.danger.found),
         cylinders: tiles,
         inspections: records.iter().take(20).map(inspection_line).collect(),
+        service,
     }
     .into_response()
 }

@@ -30,6 +30,8 @@ pub struct Row {
     pub limit: String,
     pub verdict: String,
     pub diagnosis: String,
+    /// The record's decision (shown first, by word and shape).
+    pub decision: String,
     pub flags: Vec<String>,
     pub amends: Option<i64>,
     pub amended_by: Option<i64>,
@@ -46,6 +48,7 @@ pub struct DecayRow {
     pub change: String,
     pub verdict: String,
     pub diagnosis: String,
+    pub decision: String,
     pub amended_by: Option<i64>,
     pub entered: String,
 }
@@ -173,6 +176,12 @@ fn row(t: &DriftTest, units: UnitSystem) -> Row {
             }
             _ => "—".into(),
         },
+        decision: decision_of(
+            t.decision.as_deref(),
+            t.decision_json.as_deref(),
+            &t.verdict,
+            &t.diagnosis,
+        ),
         verdict: t.verdict.clone(),
         diagnosis: t.diagnosis.clone(),
         flags: flags_words(&t.flag_list()),
@@ -182,6 +191,21 @@ fn row(t: &DriftTest, units: UnitSystem) -> Row {
     }
 }
 
+/// A stored test's decision word (`fit_for_service`, ...), from its stored decision or, for a
+/// record stored before decisions were kept, from its verdict and diagnosis.
+fn decision_of(
+    decision: Option<&str>,
+    json: Option<&str>,
+    verdict: &str,
+    diagnosis: &str,
+) -> String {
+    crate::api::decision_answer::of_record(decision, json, (Some(verdict), Some(diagnosis), None))
+        ["decision"]
+        .as_str()
+        .unwrap_or_default()
+        .to_string()
+}
+
 fn decay_row(t: &DecayTest, units: UnitSystem) -> DecayRow {
     DecayRow {
         id: t.id,
@@ -189,6 +213,12 @@ fn decay_row(t: &DecayTest, units: UnitSystem) -> DecayRow {
         technician: t.technician.clone(),
         end: format!("{} end", t.pressurised_end),
         change: q(Some(t.pressure_change_pa), Dimension::Pressure, units),
+        decision: decision_of(
+            t.decision.as_deref(),
+            t.decision_json.as_deref(),
+            &t.verdict,
+            &t.diagnosis,
+        ),
         verdict: t.verdict.clone(),
         diagnosis: t.diagnosis.clone(),
         amended_by: t.amended_by_id,

@@ -33,6 +33,11 @@ pub struct InspectionPage {
     pub corrective_action: String,
     pub created: String,
     pub repeated: bool,
+    /// The record's decision first (`calc::decision`) and its reasons.
+    pub decision: String,
+    pub decision_words: String,
+    pub reasons: Vec<String>,
+    pub signed_by: String,
 }
 
 #[derive(Debug, Default, Deserialize)]
@@ -86,7 +91,17 @@ pub async fn show(
             )
         })
         .collect();
+    let decided = crate::api::decision_answer::of_record(
+        i.decision.as_deref(),
+        i.decision_json.as_deref(),
+        (None, None, Some(&i.result)),
+    );
+    let word = |key: &str| decided[key].as_str().unwrap_or_default().to_string();
     InspectionPage {
+        decision: word("decision"),
+        decision_words: word("decision_words"),
+        reasons: super::words::texts(&decided["reasons"]),
+        signed_by: i.created_by.clone(),
         ctx,
         line: inspection_line(&i),
         machine_id: m.id,

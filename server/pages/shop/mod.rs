@@ -29,6 +29,7 @@ pub mod label;
 pub mod qr;
 pub mod record;
 pub mod words;
+pub mod worklist;
 
 const CSS: &str = include_str!("../../../web/static/shop.css");
 

@@ -33,6 +33,11 @@ pub struct RecordPage {
     pub unit_number: String,
     pub function: String,
     pub size: String,
+    /// The record's decision first (`calc::decision`), its reasons and restrictions.
+    pub decision: String,
+    pub decision_words: String,
+    pub reasons: Vec<String>,
+    pub restrictions: Vec<String>,
     pub verdict: String,
     pub verdict_words: &'static str,
     pub diagnosis: String,
@@ -91,6 +96,8 @@ struct Signed<'a> {
     id: i64,
     verdict: &'a str,
     diagnosis: &'a str,
+    decision: Option<&'a str>,
+    decision_json: Option<&'a str>,
     flags: Vec<String>,
     technician: &'a str,
     tested_at: &'a str,
@@ -119,7 +126,17 @@ fn record_page(
     (figures, readings): (Lines, Lines),
     repeated: bool,
 ) -> Response {
+    let decided = crate::api::decision_answer::of_record(
+        t.decision,
+        t.decision_json,
+        (Some(t.verdict), Some(t.diagnosis), None),
+    );
+    let word = |key: &str| decided[key].as_str().unwrap_or_default().to_string();
     RecordPage {
+        decision: word("decision"),
+        decision_words: word("decision_words"),
+        reasons: texts(&decided["reasons"]),
+        restrictions: texts(&decided["restrictions"]),
         ctx,
         title: t.title,
         id: t.id,
@@ -218,6 +235,8 @@ async fn drift_page(
         id: t.id,
         verdict: &t.verdict,
         diagnosis: &t.diagnosis,
+        decision: t.decision.as_deref(),
+        decision_json: t.decision_json.as_deref(),
         flags: t.flag_list(),
         technician: &t.technician,
         tested_at: &t.tested_at,
@@ -303,6 +322,8 @@ async fn decay_page(
         id: t.id,
         verdict: &t.verdict,
         diagnosis: &t.diagnosis,
+        decision: t.decision.as_deref(),
+        decision_json: t.decision_json.as_deref(),
         flags: t.flag_list(),
         technician: &t.technician,
         tested_at: &t.tested_at,

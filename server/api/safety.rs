@@ -11,6 +11,7 @@ use crate::app::AppState;
 use crate::calc::analysis::{component_words, scenario_words};
 use crate::calc::decision::decide;
 use crate::calc::decision_findings::{standing, worst_check};
+use crate::calc::limits;
 use crate::calc::quantity::Dimension as D;
 use crate::calc::ratings::Check;
 use crate::db::{hoses, installed, service_return};
@@ -46,6 +47,10 @@ async fn show(
             "pressure": p(k.pressure),
             "rating": p(k.rating),
             "status": k.status.as_str(),
+            "exposure": k.exposure.as_str(),
+            "load": shown(Some(k.load), D::Force, units),
+            // A relief-setting check decides only on an end with no rating (limits.rs).
+            "decides_status": limits::decides_status(k, &input.ratings),
         })
     };
     let ruling = decide(&standing(&report), units);
@@ -71,7 +76,7 @@ async fn show(
             "rating": p(r.rating),
         })).collect::<Vec<_>>(),
         "checks": report.checks.iter().map(check).collect::<Vec<_>>(),
-        "worst": worst_check(&report.checks).map(check),
+        "worst": worst_check(&report.deciding_checks).map(check),
         "highest_pressure": p(report.highest_pressure),
         "hazards": report.hazards,
         "cautions": report.cautions,

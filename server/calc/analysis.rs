@@ -64,6 +64,11 @@ pub struct CylinderReport {
     pub holding_valve: Option<valve_words::HoldingValveReport>,
     pub scenarios: Vec<Scenario>,
     pub checks: Vec<Check>,
+    /// The checks that decide the cylinder's status and a record's decision: every rating
+    /// check, and a relief-setting check only on an end with no rating
+    /// ([`limits::decides_status`]).
+    #[serde(skip)]
+    pub deciding_checks: Vec<Check>,
     pub tube: Option<TubeCheck>,
     pub buckling: Option<BucklingReport>,
     /// Highest pressure any scenario puts in the cylinder, Pa.
@@ -133,7 +138,12 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         load,
     ));
     if let Some(w) = warming {
-        scenarios.push(Scenario::at(SEAL_BYPASS_WARMING, w.pressure, w.pressure, load));
+        scenarios.push(Scenario::at(
+            SEAL_BYPASS_WARMING,
+            w.pressure,
+            w.pressure,
+            load,
+        ));
     }
     // Worst load, stated: the same scenarios at the lightest load of the range; each end
     // keeps its higher figure and the load that gave it (worst_load.rs).
@@ -218,6 +228,11 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         bypass_warming: warming,
         holding_valve: valve_words::holding_valve(input),
         scenarios,
+        deciding_checks: checks
+            .iter()
+            .filter(|k| limits::decides_status(k, &input.ratings))
+            .cloned()
+            .collect(),
         checks,
         tube,
         buckling,

@@ -50,7 +50,7 @@ pub fn drift_findings(
     Findings {
         verdict: Some(report.verdict),
         diagnosis: Some(report.diagnosis),
-        checks: cylinder.checks.clone(),
+        checks: cylinder.deciding_checks.clone(),
         measured_over: measured_over(
             ratings,
             &[
@@ -77,7 +77,7 @@ pub fn decay_findings(
     Findings {
         verdict: Some(report.verdict),
         diagnosis: Some(report.diagnosis),
-        checks: cylinder.checks.clone(),
+        checks: cylinder.deciding_checks.clone(),
         measured_over: measured_over(
             ratings,
             &[
@@ -157,7 +157,7 @@ pub fn findings_from_words(
 /// (every scenario the analysis computed against every rating).
 pub fn standing(report: &CylinderReport) -> Findings {
     Findings {
-        checks: report.checks.clone(),
+        checks: report.deciding_checks.clone(),
         ..Findings::default()
     }
 }

@@ -57,7 +57,7 @@ pub fn worst(c: &Cylinder, hoses: &[&Hose], units: UnitSystem) -> Danger {
         status: "ok",
         ..Danger::default()
     };
-    if let Some(k) = worst_check(&report.checks) {
+    if let Some(k) = worst_check(&report.deciding_checks) {
         danger.found = true;
         danger.status = k.status.as_str();
         danger.headline = format!(

@@ -39,7 +39,10 @@ async fn the_safety_api_the_hazard_list_the_pages_and_the_overview_agree_on_the_
             .collect();
         assert!(names.contains(&"trapped_oil_heating"), "{names:?}");
         let mut over = false;
-        for k in checks.iter().filter(|k| k["status"] == "exceeds") {
+        for k in checks
+            .iter()
+            .filter(|k| k["status"] == "exceeds" && k["decides_status"] == true)
+        {
             over = true;
             if k["scenario"] == "trapped_oil_heating" {
                 with_trapped_oil += 1;

@@ -256,9 +256,15 @@ async fn the_registry_cannot_clear_an_out_of_service_that_a_record_set() {
 async fn a_leak_within_the_limit_restricts_the_machine_and_lists_the_restriction() {
     let s = shop().await;
     let (machine, cylinder) = loaded_cylinder(&s.admin, "LOOP-7").await;
-    // 3 mm in 10 min passes a 5 mm limit, but with both pressures steady the oil is leaving
-    // the holding end (diagnosis rule 3 of calc/diagnosis.rs).
-    let t = record(&s.tech, cylinder, &drift("3 mm", json!({}))).await;
+    // 3 mm in 10 min passes a 5 mm limit, but with both pressures steady and the rod port
+    // recorded as blocked (a rod end read at zero would otherwise count as open to tank) the
+    // oil is leaving the holding end (diagnosis rule 3 of calc/diagnosis.rs).
+    let t = record(
+        &s.tech,
+        cylinder,
+        &drift("3 mm", json!({"rod_port_centre": "blocked"})),
+    )
+    .await;
     assert_eq!(t["verdict"], "pass");
     assert_eq!(t["diagnosis"], "holding_circuit_leak");
     assert_eq!(

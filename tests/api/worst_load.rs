@@ -318,13 +318,23 @@ async fn an_unrated_end_above_the_relief_setting_is_on_the_hazard_list_and_the_p
     let (_, hazards) = app
         .get_json("/api/v1/reports/hazards?as_of=2026-01-01")
         .await;
+    // One line per component (here the rod end's relief setting) at its worst scenario; the
+    // rod-side scenario is among those above it, and the worst is at least its 538.5 bar.
     let item = find(&hazards["pressures"], |p| {
-        p["cylinder_id"] == c
-            && p["component"] == "relief_setting"
-            && p["exposure"] == "rod"
-            && p["scenario"] == "rod_side_intensification"
+        p["cylinder_id"] == c && p["component"] == "relief_setting" && p["exposure"] == "rod"
     });
-    close(&item["pressure"], 538.5e5, "rod end");
+    assert!(
+        item["scenarios_above"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|s| s == "rod_side_intensification"),
+        "{item}"
+    );
+    assert!(
+        item["pressure"]["si"].as_f64().unwrap() >= 538.5e5 * 0.995,
+        "{item}"
+    );
     close(&item["rating"], 20e5, "against the relief setting");
     close(&item["load"], 200e3, "at the heaviest pulling load");
     let (_, _, page) = app.get_page(&format!("/cylinders/{c}")).await;

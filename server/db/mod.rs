@@ -10,6 +10,7 @@ use std::time::Duration;
 // registry
 pub mod audit;
 pub mod cylinders;
+pub mod health;
 pub mod hoses;
 pub mod machines;
 pub mod page;

@@ -2,6 +2,7 @@
 //! module per concern; each test fails on the code before the fix. Invented test data.
 
 mod csv_cells;
+mod database;
 mod logins;
 mod operations;
 mod plausibility;

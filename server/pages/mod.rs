@@ -8,6 +8,7 @@ use axum::http::StatusCode;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
 
+pub mod account; // accounts
 pub mod admin; // accounts
 pub mod assets;
 pub mod calc;
@@ -43,6 +44,7 @@ pub fn router() -> Router<AppState> {
         .route("/", get(|| async { Redirect::to("/machines") }))
         .merge(assets::router())
         .merge(login::router()) // accounts
+        .merge(account::router()) // accounts
         .merge(admin::router()) // accounts
         .merge(calc::router())
         // registry

@@ -5,5 +5,6 @@ mod csv_cells;
 mod database;
 mod logins;
 mod operations;
+mod passwords;
 mod plausibility;
 mod tokens;

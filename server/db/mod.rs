@@ -13,6 +13,7 @@ pub mod cylinders;
 pub mod health;
 pub mod hoses;
 pub mod machines;
+pub mod names;
 pub mod page;
 pub mod sites;
 pub mod write;
@@ -76,6 +77,7 @@ pub async fn begin_write(
 pub async fn open(path: &Path) -> Result<Db, sqlx::Error> {
     let db = connect(path).await?;
     MIGRATOR.run(&db).await?;
+    names::backfill(&db).await?;
     Ok(db)
 }
 

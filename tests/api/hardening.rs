@@ -4,6 +4,7 @@
 mod csv_cells;
 mod database;
 mod logins;
+mod names;
 mod operations;
 mod passwords;
 mod plausibility;

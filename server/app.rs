@@ -65,11 +65,22 @@ pub fn app(state: AppState) -> Router {
         .layer(TraceLayer::new_for_http())
 }
 
-/// `GET /healthz`: 200 once the database answers, 503 otherwise.
-async fn healthz(State(state): State<AppState>) -> (StatusCode, &'static str) {
-    if crate::db::ping(&state.db).await {
-        (StatusCode::OK, "ok")
-    } else {
-        (StatusCode::SERVICE_UNAVAILABLE, "database not ready")
+/// `GET /healthz`: 200 once the database answers and takes a write (rolled back); 503 with
+/// `Retry-After` and the reason when it is busy, cannot be written or does not answer.
+async fn healthz(State(state): State<AppState>) -> axum::response::Response {
+    use axum::response::IntoResponse;
+    if !crate::db::ping(&state.db).await {
+        let retry = [(header::RETRY_AFTER, "5")];
+        return (StatusCode::SERVICE_UNAVAILABLE, retry, "database not ready").into_response();
+    }
+    match crate::db::health::check_write(&state.db).await {
+        Ok(()) => (StatusCode::OK, "ok").into_response(),
+        Err(error) => {
+            let why = crate::db::health::unavailable(&error)
+                .unwrap_or(crate::db::health::Unavailable::NotWritable);
+            tracing::warn!(cause = %error, "health check: the database cannot be written");
+            let retry = [(header::RETRY_AFTER, why.retry_after_s().to_string())];
+            (StatusCode::SERVICE_UNAVAILABLE, retry, why.message()).into_response()
+        }
     }
 }

@@ -2,7 +2,7 @@
 //! `{"error": {"code", "message", "field"}}`; internal causes are logged, never sent.
 
 use axum::Json;
-use axum::http::StatusCode;
+use axum::http::{StatusCode, header};
 use axum::response::{IntoResponse, Response};
 use serde_json::json;
 
@@ -28,6 +28,14 @@ pub enum AppError {
     Forbidden(String),
     #[error("too many attempts")]
     TooManyRequests,
+    /// The database cannot take the write now: busy with another writer (try again soon) or
+    /// not writable at all (read-only file, full or failing disk). 503 with `Retry-After`.
+    #[error("database unavailable: {message}")]
+    Unavailable {
+        code: &'static str,
+        message: String,
+        retry_after_s: u32,
+    },
     #[error("internal error: {0}")]
     Internal(String),
 }
@@ -77,7 +85,16 @@ impl AppError {
             AppError::Unauthorized => StatusCode::UNAUTHORIZED,
             AppError::Forbidden(_) => StatusCode::FORBIDDEN,
             AppError::TooManyRequests => StatusCode::TOO_MANY_REQUESTS,
+            AppError::Unavailable { .. } => StatusCode::SERVICE_UNAVAILABLE,
             AppError::Internal(_) => StatusCode::INTERNAL_SERVER_ERROR,
+        }
+    }
+
+    /// The `Retry-After` seconds of a 503, if any.
+    pub fn retry_after(&self) -> Option<u32> {
+        match self {
+            AppError::Unavailable { retry_after_s, .. } => Some(*retry_after_s),
+            _ => None,
         }
     }
 
@@ -103,6 +120,7 @@ impl AppError {
                 "too many attempts; wait a minute and try again".into(),
                 None,
             ),
+            AppError::Unavailable { code, message, .. } => (code, message.clone(), None),
             AppError::Internal(_) => (
                 "internal",
                 "the server could not complete the request; it has been logged".into(),
@@ -114,6 +132,14 @@ impl AppError {
 
 impl From<sqlx::Error> for AppError {
     fn from(error: sqlx::Error) -> Self {
+        if let Some(unavailable) = crate::db::health::unavailable(&error) {
+            tracing::warn!(cause = %error, "database unavailable");
+            return AppError::Unavailable {
+                code: unavailable.code(),
+                message: unavailable.message().into(),
+                retry_after_s: unavailable.retry_after_s(),
+            };
+        }
         match error {
             sqlx::Error::RowNotFound => AppError::NotFound("the record".into()),
             other => AppError::Internal(other.to_string()),
@@ -127,9 +153,16 @@ impl IntoResponse for AppError {
             tracing::error!(%cause, "request failed");
         }
         let status = self.status();
+        let retry = self.retry_after();
         let (code, message, field) = self.parts();
         let body = json!({"error": {"code": code, "message": message, "field": field}});
-        (status, Json(body)).into_response()
+        let mut response = (status, Json(body)).into_response();
+        if let Some(seconds) = retry {
+            response
+                .headers_mut()
+                .insert(header::RETRY_AFTER, seconds.into());
+        }
+        response
     }
 }
 

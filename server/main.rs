@@ -148,7 +148,12 @@ fn init_tracing() {
     if std::env::var("LOADHOLD_LOG_FORMAT").as_deref() == Ok("json") {
         builder.json().init();
     } else {
-        builder.init();
+        // colour codes only on a terminal; user text has its control characters escaped
+        use std::io::IsTerminal;
+        builder
+            .with_ansi(std::io::stderr().is_terminal())
+            .fmt_fields(loadhold::log_format::fields())
+            .init();
     }
 }
 

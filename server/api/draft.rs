@@ -147,3 +147,17 @@ pub fn date_text(date: Date) -> String {
     date.format(format_description!("[year]-[month]-[day]"))
         .unwrap_or_default()
 }
+
+/// A unit number, serial or site name as stored (`db::names::clean`: NFKC, trimmed, no control
+/// or invisible characters); an empty result is refused as missing.
+pub fn name(f: &Fields, field: &str, text: &str) -> Result<String, AppError> {
+    match crate::db::names::clean(text) {
+        Ok(clean) if clean.is_empty() => Err(AppError::field(
+            f.path(field),
+            "required",
+            "a name with visible characters is required",
+        )),
+        Ok(clean) => Ok(clean),
+        Err(message) => Err(AppError::field(f.path(field), "invalid_character", message)),
+    }
+}

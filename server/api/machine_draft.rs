@@ -57,7 +57,10 @@ pub fn read(
     let latest = Some(latest_past());
     p.take(f.deny_unknown(FIELDS));
     if touched(map, "unit_number")
-        && let Some(v) = p.take(required_text(&f, "unit_number", 40))
+        && let Some(v) = p.take(
+            required_text(&f, "unit_number", 40)
+                .and_then(|v| super::draft::name(&f, "unit_number", &v)),
+        )
     {
         m.unit_number = v;
     }
@@ -77,7 +80,10 @@ pub fn read(
         m.description = v;
     }
     if touched(map, "serial")
-        && let Some(v) = p.take(text(&f, "serial", 80))
+        && let Some(v) = p.take(
+            text(&f, "serial", 80)
+                .and_then(|v| v.map(|v| super::draft::name(&f, "serial", &v)).transpose()),
+        )
     {
         m.serial = v;
     }

@@ -36,7 +36,8 @@ pub fn read(
     let mut site = base;
     p.take(f.deny_unknown(FIELDS));
     if touched(map, "name")
-        && let Some(name) = p.take(required_text(&f, "name", 120))
+        && let Some(name) =
+            p.take(required_text(&f, "name", 120).and_then(|v| super::draft::name(&f, "name", &v)))
     {
         site.name = name;
     }

@@ -1,4 +1,5 @@
-//! Passwords: Argon2id hashes in PHC string form, a length rule, and generated passwords.
+//! Passwords: Argon2id hashes in PHC string form, the rules a new password must meet (length,
+//! not among the 10,000 most common, no control characters), and generated passwords.
 
 use super::secret;
 use argon2::password_hash::phc::PasswordHash;
@@ -6,7 +7,9 @@ use argon2::{Algorithm, Argon2, Params, PasswordHasher, PasswordVerifier, Versio
 use std::sync::OnceLock;
 
 /// Fewest characters a password may have.
-pub const MIN_LEN: usize = 10;
+pub const MIN_LEN: usize = 12;
+/// Passwords ranked this high or higher in the list of common passwords are refused.
+pub const COMMON_RANK: usize = 10_000;
 /// Most characters a password may have (hashing cost stays bounded).
 pub const MAX_LEN: usize = 200;
 
@@ -22,6 +25,12 @@ pub enum PasswordError {
     TooLong,
     #[error("a password must differ from the user name")]
     SameAsUsername,
+    #[error("this password is among the 10,000 most common ones; choose another")]
+    Common,
+    #[error("a password may not contain control characters (such as a NUL, a tab or a line break)")]
+    ControlCharacter,
+    #[error("a password needs more than one distinct character")]
+    OneCharacter,
     #[error("hashing failed: {0}")]
     Hash(String),
 }
@@ -43,7 +52,27 @@ pub fn check(username: &str, password: &str) -> Result<(), PasswordError> {
     if password.eq_ignore_ascii_case(username) {
         return Err(PasswordError::SameAsUsername);
     }
+    if password.chars().any(char::is_control) {
+        return Err(PasswordError::ControlCharacter);
+    }
+    let mut chars = password.chars();
+    let first = chars.next();
+    if chars.all(|c| Some(c) == first) {
+        return Err(PasswordError::OneCharacter);
+    }
+    if is_common(password) {
+        return Err(PasswordError::Common);
+    }
     Ok(())
+}
+
+/// True when the password (any letter case) is among the [`COMMON_RANK`] most common ones of
+/// the list the zxcvbn crate ships (its `passwords` frequency list, ranked by how often each
+/// appeared in leaked password sets), or is as easy to guess. zxcvbn estimates the guesses an
+/// attacker needs from that list and other patterns; a list entry of rank r needs at most r
+/// guesses (its own dictionary match), so "at most 10,000 guesses" covers the first 10,000.
+pub fn is_common(password: &str) -> bool {
+    zxcvbn::zxcvbn(&password.to_lowercase(), &[]).guesses() <= COMMON_RANK as u64
 }
 
 /// Hashes a password with Argon2id and a fresh random salt; returns the PHC string.

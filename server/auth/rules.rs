@@ -108,6 +108,7 @@ static RULES: &[Rule] = &[
     role(Any, "/api/v1/pressure-decay-tests", Technician, SHOP),
     role(Any, "/api/v1/inspections", Technician, SHOP),
     role(Write, "/logout", Technician, READ),
+    role(Any, "/account", Technician, "change your password"),
     // Managers: the registry's add and edit forms (their POSTs fall under the default below).
     role(Read, "/*/new", Manager, EDIT),
     role(Read, "/*/*/new", Manager, EDIT),

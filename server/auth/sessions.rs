@@ -85,11 +85,15 @@ pub async fn lookup(db: &Db, token: &str) -> Result<Option<Found>, sqlx::Error> 
         return Ok(None);
     };
     if clock::older_than(&row.last_seen_at, TOUCH_EVERY) {
-        sqlx::query("UPDATE sessions SET last_seen_at = ? WHERE id = ?")
+        // best effort: a database that cannot take writes still serves reads
+        let touched = sqlx::query("UPDATE sessions SET last_seen_at = ? WHERE id = ?")
             .bind(clock::now())
             .bind(row.session_id)
             .execute(db)
-            .await?;
+            .await;
+        if let Err(error) = touched {
+            tracing::warn!(%error, "could not note the session's last use");
+        }
     }
     Ok(Some(Found {
         id: row.session_id,

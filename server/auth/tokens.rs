@@ -251,12 +251,16 @@ pub async fn lookup(db: &Db, token: &str) -> Result<Option<ApiToken>, sqlx::Erro
             Some(at) => clock::older_than(at, TOUCH_EVERY),
             None => true,
         };
-        if stale {
-            sqlx::query("UPDATE api_tokens SET last_used_at = ? WHERE id = ?")
+        // best effort: a database that cannot take writes still serves reads
+        if stale
+            && let Err(error) = sqlx::query("UPDATE api_tokens SET last_used_at = ? WHERE id = ?")
                 .bind(&now)
                 .bind(found.id)
                 .execute(db)
-                .await?;
+                .await
+        {
+            tracing::warn!(%error, "could not note the token's last use");
+            return Ok(Some(found.clone()));
         }
         let first_today = found
             .last_used_at
@@ -265,7 +269,10 @@ pub async fn lookup(db: &Db, token: &str) -> Result<Option<ApiToken>, sqlx::Erro
         if first_today {
             let detail = serde_json::json!({"token": found.name, "owner": found.owner});
             let actor = found.actor().name;
-            super::events::note(db, &actor, "use", ("api_token", found.id), &detail).await?;
+            let noted = super::events::note(db, &actor, "use", ("api_token", found.id), &detail);
+            if let Err(error) = noted.await {
+                tracing::warn!(%error, "could not audit the token's first use today");
+            }
         }
     }
     Ok(found)

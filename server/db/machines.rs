@@ -144,6 +144,11 @@ pub async fn list(
     window: Window,
 ) -> Result<Page<Machine>, sqlx::Error> {
     let pattern = filter.q.as_deref().map(contains_pattern);
+    let key_pattern = filter
+        .q
+        .as_deref()
+        .filter(|q| super::names::looks_like_unit(q))
+        .map(|q| contains_pattern(&super::names::key(q)));
     let rows = sqlx::query_as::<_, Machine>(concat!(
         select_machine!(),
         "WHERE m.id > ?
@@ -152,7 +157,8 @@ pub async fn list(
            AND (? IS NULL OR m.kind = ?)
            AND (? IS NULL OR LOWER(m.unit_number) LIKE ? ESCAPE '\\'
                 OR LOWER(COALESCE(m.description, '')) LIKE ? ESCAPE '\\'
-                OR LOWER(COALESCE(m.serial, '')) LIKE ? ESCAPE '\\')
+                OR LOWER(COALESCE(m.serial, '')) LIKE ? ESCAPE '\\'
+                OR (? IS NOT NULL AND ? <> '%%' AND m.unit_key LIKE ? ESCAPE '\\'))
            AND (? = 1 OR m.archived_at IS NULL)
          ORDER BY m.id LIMIT ?"
     ))
@@ -167,6 +173,10 @@ pub async fn list(
     .bind(&pattern)
     .bind(&pattern)
     .bind(&pattern)
+    // the unit search matches the uniqueness key too (db::names): `hvss15` finds HV-SS-15
+    .bind(&key_pattern)
+    .bind(&key_pattern)
+    .bind(&key_pattern)
     .bind(i64::from(filter.include_archived))
     .bind(window.fetch())
     .fetch_all(db)
@@ -203,6 +213,7 @@ pub async fn insert(
     if let Some(site_id) = f.site_id {
         sites::check_usable(conn, "site_id", site_id).await?;
     }
+    super::names::check_unit(conn, None, &f.unit_number).await?;
     let id: i64 = sqlx::query_scalar(
         "INSERT INTO machines (unit_number, site_id, kind, description, serial, status,
             out_of_service_reason, out_of_service_since, relief_pressure_pa, hour_meter_h,
@@ -229,6 +240,7 @@ pub async fn insert(
     .fetch_one(&mut *conn)
     .await
     .map_err(map_unique(&f.unit_number))?;
+    super::names::store_unit_key(conn, id).await?;
     let machine = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("machine"))?;
@@ -268,6 +280,10 @@ pub async fn update(
     if before.fields() == *f && archived_at == before.archived_at {
         return Ok(before);
     }
+    let renamed = f.unit_number != before.unit_number;
+    if renamed {
+        super::names::check_unit(conn, Some(id), &f.unit_number).await?;
+    }
     sqlx::query(
         "UPDATE machines SET unit_number = ?, site_id = ?, kind = ?, description = ?, serial = ?,
             out_of_service_inspection_id =
@@ -300,6 +316,9 @@ pub async fn update(
     .execute(&mut *conn)
     .await
     .map_err(map_unique(&f.unit_number))?;
+    if renamed {
+        super::names::store_unit_key(conn, id).await?;
+    }
     let after = get(conn, id)
         .await?
         .ok_or(WriteError::NotFound("machine"))?;

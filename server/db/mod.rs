@@ -11,9 +11,11 @@ use std::time::Duration;
 pub mod audit;
 pub mod cylinder_valves;
 pub mod cylinders;
+pub mod health;
 pub mod hoses;
 pub mod installed;
 pub mod machines;
+pub mod names;
 pub mod page;
 pub mod sites;
 pub mod write;
@@ -80,6 +82,7 @@ pub async fn begin_write(
 pub async fn open(path: &Path) -> Result<Db, sqlx::Error> {
     let db = connect(path).await?;
     MIGRATOR.run(&db).await?;
+    names::backfill(&db).await?;
     Ok(db)
 }
 

@@ -93,6 +93,7 @@ pub async fn insert(
     at: &str,
     fields: &SiteFields,
 ) -> Result<Site, WriteError> {
+    super::names::check_site(conn, None, &fields.name).await?;
     let id: i64 = sqlx::query_scalar(
         "INSERT INTO sites (name, units, trapped_oil_warming_k, created_at, updated_at)
          VALUES (?, ?, ?, ?, ?) RETURNING id",
@@ -105,6 +106,7 @@ pub async fn insert(
     .fetch_one(&mut *conn)
     .await
     .map_err(unique_as(|| duplicate(&fields.name)))?;
+    super::names::store_site_key(conn, id).await?;
     let site = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
     audit::created(conn, actor, "site", id, &site).await?;
     Ok(site)
@@ -123,6 +125,10 @@ pub async fn update(
     if before.fields() == *fields && archived_at == before.archived_at {
         return Ok(before);
     }
+    let renamed = fields.name != before.name;
+    if renamed {
+        super::names::check_site(conn, Some(id), &fields.name).await?;
+    }
     sqlx::query(
         "UPDATE sites SET name = ?, units = ?, trapped_oil_warming_k = ?, archived_at = ?,
             updated_at = ?
@@ -137,6 +143,9 @@ pub async fn update(
     .execute(&mut *conn)
     .await
     .map_err(unique_as(|| duplicate(&fields.name)))?;
+    if renamed {
+        super::names::store_site_key(conn, id).await?;
+    }
     let after = get(conn, id).await?.ok_or(WriteError::NotFound("site"))?;
     let action = change_action(&before.archived_at, &after.archived_at);
     audit::changed(conn, actor, action, "site", id, &before, &after).await?;

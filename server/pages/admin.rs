@@ -207,7 +207,7 @@ fn refused(error: WriteError) -> Response {
             AppError::field(field, "invalid", message)
         }
         WriteError::NotFound(what) => AppError::not_found(what),
-        WriteError::Db(cause) => AppError::internal(cause),
+        WriteError::Db(cause) => AppError::from(cause),
     };
     super::page_error(error)
 }

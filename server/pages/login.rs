@@ -5,6 +5,7 @@ use super::ctx::PageCtx;
 use crate::app::AppState;
 use crate::auth::login::{self, LoginError};
 use crate::auth::middleware::{Credential, client_address};
+use crate::auth::sessions::SessionError;
 use crate::auth::{Actor, cookie, events, sessions};
 use askama::Template;
 use askama_web::WebTemplate;
@@ -119,7 +120,7 @@ async fn submit(
             if let Some(Credential::Session { id }) = extensions.get::<Credential>()
                 && let Err(error) = sessions::end(&state.db, *id).await
             {
-                return super::page_error(crate::error::AppError::internal(error));
+                return super::page_error(crate::error::AppError::from(error));
             }
             let max_age = sessions::LIFETIME.whole_seconds();
             let cookie = cookie::session(&session.token, max_age, cookie::secure());
@@ -145,6 +146,9 @@ async fn submit(
                 "That user name and password do not match an enabled account.",
             )
         }
+        Err(LoginError::Session(SessionError::Db(error))) => {
+            super::page_error(crate::error::AppError::from(error))
+        }
         Err(LoginError::Session(error)) => {
             super::page_error(crate::error::AppError::internal(error))
         }
@@ -163,7 +167,7 @@ async fn logout(State(state): State<AppState>, actor: Actor, extensions: Extensi
             Err(error) => Err(error),
         };
         if let Err(error) = ended {
-            return super::page_error(crate::error::AppError::internal(error));
+            return super::page_error(crate::error::AppError::from(error));
         }
     }
     let mut response = Redirect::to("/login").into_response();

@@ -8,6 +8,7 @@ use axum::http::StatusCode;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
 
+pub mod account; // accounts
 pub mod admin; // accounts
 pub mod assets;
 pub mod calc;
@@ -50,6 +51,7 @@ pub fn router() -> Router<AppState> {
         .route("/", get(start))
         .merge(assets::router())
         .merge(login::router()) // accounts
+        .merge(account::router()) // accounts
         .merge(admin::router()) // accounts
         .merge(calc::router())
         // registry
@@ -104,13 +106,20 @@ async fn not_found() -> Response {
 /// Turns an `AppError` into a page for browsers (the API renders JSON instead).
 pub fn page_error(error: crate::error::AppError) -> Response {
     let status = error.status();
+    let retry = error.retry_after();
     let (_, message, _) = error.parts();
     if let crate::error::AppError::Internal(cause) = &error {
         tracing::error!(%cause, "page failed");
     }
-    error_page(
+    let mut response = error_page(
         status,
         status.canonical_reason().unwrap_or("Error"),
         &message,
-    )
+    );
+    if let Some(seconds) = retry {
+        response
+            .headers_mut()
+            .insert(axum::http::header::RETRY_AFTER, seconds.into());
+    }
+    response
 }

@@ -70,7 +70,7 @@ async fn cli_user_add_takes_the_password_from_stdin_or_prints_a_generated_one() 
         &["user", "add", "shorty", "--role", "admin", "--db", &db],
         "short\n",
     );
-    assert!(!ok && err.contains("at least 10"), "{err}");
+    assert!(!ok && err.contains("at least 12"), "{err}");
 }
 
 #[tokio::test]

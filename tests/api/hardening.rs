@@ -2,7 +2,10 @@
 //! module per concern; each test fails on the code before the fix. Invented test data.
 
 mod csv_cells;
+mod database;
 mod logins;
+mod names;
 mod operations;
+mod passwords;
 mod plausibility;
 mod tokens;

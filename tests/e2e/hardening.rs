@@ -49,3 +49,44 @@ async fn a_client_that_trickles_its_headers_is_cut_off() {
     );
     drop(server);
 }
+
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn a_user_name_cannot_forge_a_log_line_or_send_terminal_codes() {
+    let dir = TempDir::new("logs");
+    let out = artifacts("log_escaping");
+    let db = dir.path().join("fleet.sqlite");
+    migrate(&db);
+    let log = out.join("server.log");
+    let server = Server::start(&db, &log).await;
+    // a line break, a forged log line and a terminal colour code in the user name
+    let body = "username=mallory%0A2026-01-01T00:00:00Z%20INFO%20FORGED%20admin%20login\
+                %1B%5B31m&password=not-the-password-1";
+    let reply = server
+        .http()
+        .send(
+            hyper::Method::POST,
+            "/login",
+            Some("application/x-www-form-urlencoded"),
+            body.as_bytes().to_vec(),
+        )
+        .await
+        .expect("login");
+    assert_eq!(reply.status, 401);
+    drop(server);
+    let text = std::fs::read_to_string(&log).expect("server log");
+    assert!(text.contains("mallory"), "the refusal is logged: {text}");
+    assert!(
+        !text
+            .lines()
+            .any(|l| l.contains("FORGED") && !l.contains("mallory")),
+        "a log line was forged:\n{text}"
+    );
+    assert!(
+        !text.contains('\u{1b}'),
+        "a terminal escape code reached the log:\n{text}"
+    );
+    assert!(
+        text.contains("\\n") && text.contains("\\u{1b}"),
+        "shown escaped:\n{text}"
+    );
+}

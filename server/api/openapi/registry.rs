@@ -85,7 +85,7 @@ pub fn machine_field(name: &str) -> S {
         "out_of_service_reason" => opt_text(500),
         "out_of_service_since" | "hour_meter_read_on" => opt_date(),
         "relief_pressure" => opt_quantity_in(D::Pressure),
-        "hour_meter" => nullable(number_range(0.0, 1e12)),
+        "hour_meter" => nullable(number_range(0.0, 500_000.0)),
         "periodic_interval_days" => opt_int(1, 3650),
         "periodic_interval_hours" => nullable(number_range(1.0, 1e12)),
         "frequent_interval_days" => opt_int(1, 366),

@@ -81,7 +81,8 @@ fn inspection_field(name: &str) -> S {
     match name {
         "kind" => words(&["periodic", "frequent"]),
         "performed_on" => date(),
-        "hour_meter" => nullable(number_range(0.0, 1e12)),
+        "hour_meter" => nullable(number_range(0.0, 500_000.0)),
+        "hour_meter_replaced" => nullable(boolean()),
         "inspector" => required_text(120),
         "result" => words(&["pass", "pass_with_deficiencies", "fail"]),
         "items" => nullable(array_max(
@@ -117,6 +118,7 @@ pub const INSPECTION: &[&str] = &[
     "corrective_action",
     "client_token",
     "amends",
+    "hour_meter_replaced",
 ];
 
 pub const PROCEDURE: &[&str] = &[

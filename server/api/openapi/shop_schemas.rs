@@ -66,6 +66,7 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                         ("kind", words(&["periodic", "frequent"])),
                         ("performed_on", string()),
                         ("hour_meter", nullable(number())),
+                        ("hour_meter_replaced", boolean()),
                         ("inspector", string()),
                         ("result", words(&["pass", "pass_with_deficiencies", "fail"])),
                         (

@@ -71,7 +71,7 @@ pub async fn index(
         && let Some(m) = page
             .items
             .iter()
-            .find(|m| m.unit_number.eq_ignore_ascii_case(&q))
+            .find(|m| crate::db::names::key(&m.unit_number) == crate::db::names::key(&q))
     {
         let target = format!("/shop/machines/{}", m.id);
         return (StatusCode::SEE_OTHER, [(LOCATION, target)]).into_response();

@@ -9,9 +9,10 @@ use crate::browser::Browser;
 use crate::fixture::Demo;
 use serde_json::Value;
 
-/// A demo machine in service with no open cause, one cylinder whose load pushes the rod in
-/// and whose figures alone are fit for service (the one tested), and a cylinder whose load
-/// pulls its rod out (its run-away hazard is the unit's worst hazard).
+/// A demo machine in service with no open cause and one cylinder whose load pushes the rod in
+/// and whose figures alone are fit for service (the one tested). Every demo unit has a worst
+/// hazard to state (at least a check within the low margin of a rating, such as the blocked
+/// rod end at the relief setting with no load).
 async fn pick(demo: &Demo) -> (Value, i64) {
     let machines = demo
         .admin
@@ -37,9 +38,6 @@ async fn pick(demo: &Demo) -> (Value, i64) {
             .expect("cylinders")
             .json();
         let list = cylinders["items"].as_array().expect("cylinders");
-        if !list.iter().any(|c| c["load_direction"] == "extend") {
-            continue;
-        }
         for c in list.iter().filter(|c| c["load_direction"] == "retract") {
             let cid = c["id"].as_i64().expect("cylinder id");
             let safety = demo

@@ -50,7 +50,7 @@ pub fn read(
         && let Some(k) = p.take(f.opt_quantity("trapped_oil_warming", Dimension::TemperatureChange))
     {
         match k {
-            Some(k) if k > 200.0 => p.push(AppError::field(
+            Some(k) if !(0.0..=200.0).contains(&k) => p.push(AppError::field(
                 "trapped_oil_warming",
                 "out_of_range",
                 "the warming must lie between 0 and 200 K",

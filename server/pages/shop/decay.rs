@@ -51,6 +51,10 @@ const TEXTS: &[&str] = &[
 #[template(path = "shop/decay_form.html")]
 pub struct DecayFormPage {
     pub ctx: PageCtx,
+    /// The cylinder's worst hazard, before the form (`service/danger.html`).
+    pub danger: crate::pages::danger::Danger,
+    pub danger_id: i64,
+    pub danger_for: String,
     pub cylinder_id: i64,
     pub machine_id: i64,
     pub unit_number: String,
@@ -76,17 +80,29 @@ struct Context {
     machine: Machine,
     procedures: Vec<Procedure>,
     procedure_id: Option<i64>,
+    /// The cylinder's worst hazard, stated above the form.
+    danger: crate::pages::danger::Danger,
 }
 
 async fn context(state: &AppState, id: &str, procedure: Option<i64>) -> Result<Context, Response> {
     let (cylinder, machine) = load_cylinder(state, id).await?;
     let (procedures, procedure_id) =
         procedures_for(state, (&cylinder, &machine), "decay", procedure).await?;
+    let hoses = crate::db::hoses::of_machine(&state.db, cylinder.machine_id)
+        .await
+        .map_err(|e| crate::pages::page_error(e.into()))?;
+    let fitted: Vec<&crate::db::hoses::Hose> = hoses
+        .iter()
+        .filter(|h| h.cylinder_id == Some(cylinder.id))
+        .collect();
+    let units = pick_units(None, cylinder.site_units.as_deref());
+    let danger = crate::pages::danger::worst(&cylinder, &fitted, units);
     Ok(Context {
         cylinder,
         machine,
         procedures,
         procedure_id,
+        danger,
     })
 }
 
@@ -142,6 +158,9 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dec
         .collect();
     DecayFormPage {
         ctx,
+        danger: c.danger.clone(),
+        danger_id: cyl.id,
+        danger_for: String::new(),
         cylinder_id: cyl.id,
         machine_id: cyl.machine_id,
         unit_number: cyl.unit_number.clone(),

@@ -16,6 +16,7 @@ mod geometry;
 mod heating;
 mod properties;
 mod strength;
+mod typed;
 mod stroke_ends;
 mod units;
 mod valves;

@@ -159,9 +159,7 @@ pub fn split(text: &str) -> (String, &str) {
         let grouping_space = matches!(c, ' ' | '\u{a0}' | '\u{202f}')
             && number.chars().last().is_some_and(|p| p.is_ascii_digit())
             && (1..=3).all(|k| chars.get(i + k).is_some_and(|&(_, d)| d.is_ascii_digit()))
-            && chars
-                .get(i + 4)
-                .is_none_or(|&(_, d)| !d.is_ascii_digit())
+            && chars.get(i + 4).is_none_or(|&(_, d)| !d.is_ascii_digit())
             && !number.contains(['e', 'E']);
         if number_char(c) || exponent {
             number.push(c);
@@ -225,8 +223,7 @@ pub fn read_number(typed: &str) -> Result<f64, String> {
                 return Err(not_a_number());
             };
             let groups: Vec<&str> = whole.split(group_mark).collect();
-            if whole.contains(decimal_mark) || fraction.contains(group_mark) || !grouped(&groups)
-            {
+            if whole.contains(decimal_mark) || fraction.contains(group_mark) || !grouped(&groups) {
                 return Err(not_a_number());
             }
             format!("{}.{fraction}", groups.concat())

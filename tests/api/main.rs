@@ -3,6 +3,7 @@
 pub mod access; // accounts
 pub mod accounts; // accounts
 pub mod accounts_cli; // accounts
+mod all_problems; // issue 14: every problem at once
 mod audit; // accounts
 mod calc;
 mod calc_errors;

@@ -43,10 +43,25 @@ fn a_comma_before_three_digits_is_refused_naming_both_readings() {
 #[test]
 fn digit_grouping_is_read_when_every_group_has_three_digits() {
     // 3,000 psi alone is ambiguous; 1,234,567 Pa can only be grouping.
-    close(read("1,234,567 Pa", D::Pressure), 1_234_567.0, 1e-15, "commas");
-    close(read("1.234.567 Pa", D::Pressure), 1_234_567.0, 1e-15, "points");
+    close(
+        read("1,234,567 Pa", D::Pressure),
+        1_234_567.0,
+        1e-15,
+        "commas",
+    );
+    close(
+        read("1.234.567 Pa", D::Pressure),
+        1_234_567.0,
+        1e-15,
+        "points",
+    );
     // 10 000 lbf = 10 000 x 4.4482216152605 N = 44 482.216152605 N (NIST SP 811).
-    close(read("10 000 lbf", D::Force), 44_482.216_152_605, 1e-12, "space");
+    close(
+        read("10 000 lbf", D::Force),
+        44_482.216_152_605,
+        1e-12,
+        "space",
+    );
     close(
         read("10\u{202f}000 lbf", D::Force),
         44_482.216_152_605,

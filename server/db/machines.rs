@@ -152,7 +152,10 @@ pub async fn list(
            AND (? IS NULL OR m.kind = ?)
            AND (? IS NULL OR LOWER(m.unit_number) LIKE ? ESCAPE '\\'
                 OR LOWER(COALESCE(m.description, '')) LIKE ? ESCAPE '\\'
-                OR LOWER(COALESCE(m.serial, '')) LIKE ? ESCAPE '\\')
+                OR LOWER(COALESCE(m.serial, '')) LIKE ? ESCAPE '\\'
+                OR ",
+        crate::unit_key_sql!("m.unit_number"),
+        " LIKE ?)
            AND (? = 1 OR m.archived_at IS NULL)
          ORDER BY m.id LIMIT ?"
     ))
@@ -167,6 +170,7 @@ pub async fn list(
     .bind(&pattern)
     .bind(&pattern)
     .bind(&pattern)
+    .bind(filter.q.as_deref().map(super::unit_search::key_pattern))
     .bind(i64::from(filter.include_archived))
     .bind(window.fetch())
     .fetch_all(db)

@@ -14,6 +14,7 @@ pub mod hoses;
 pub mod machines;
 pub mod page;
 pub mod sites;
+pub mod unit_search;
 pub mod write;
 
 // shop

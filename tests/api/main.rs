@@ -28,7 +28,8 @@ mod sites;
 mod drift_tests;
 mod inspections;
 mod service_status;
+mod shop_first;
 mod shop_history;
-mod shop_pages;
+mod shop_pages; // issue 14
 // reports
 mod reports;

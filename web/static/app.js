@@ -22,6 +22,11 @@
       }
     });
   });
+  // A print button: <button data-print hidden> (without this file, the browser's own print).
+  document.querySelectorAll("[data-print]").forEach(function (button) {
+    button.hidden = false;
+    button.addEventListener("click", function () { window.print(); });
+  });
   // Confirm before a destructive-looking submit: <form data-confirm="...">.
   document.querySelectorAll("form[data-confirm]").forEach(function (form) {
     form.addEventListener("submit", function (event) {

@@ -7,6 +7,7 @@ use crate::api::paging::pick_units;
 use crate::app::AppState;
 use crate::db::machines::{self, MachineFilter};
 use crate::db::page::Window;
+use crate::db::unit_search;
 use crate::db::{cylinders, drift_tests, inspections};
 use crate::pages::ctx::PageCtx;
 use crate::pages::machine_page::{function_text, size_text};
@@ -66,7 +67,7 @@ pub async fn index(
         && let Some(m) = page
             .items
             .iter()
-            .find(|m| m.unit_number.eq_ignore_ascii_case(&q))
+            .find(|m| unit_search::key(&m.unit_number) == unit_search::key(&q))
     {
         let target = format!("/shop/machines/{}", m.id);
         return (StatusCode::SEE_OTHER, [(LOCATION, target)]).into_response();

@@ -170,7 +170,12 @@ pub async fn list(
     .bind(&pattern)
     .bind(&pattern)
     .bind(&pattern)
-    .bind(filter.q.as_deref().map(super::unit_search::key_pattern))
+    .bind(
+        filter
+            .q
+            .as_deref()
+            .and_then(super::unit_search::key_pattern),
+    )
     .bind(i64::from(filter.include_archived))
     .bind(window.fetch())
     .fetch_all(db)

@@ -5,6 +5,7 @@
 mod backup;
 mod browser;
 mod crash;
+mod fit_screens; // issue 14
 mod fixture;
 mod form_errors;
 mod hardening;

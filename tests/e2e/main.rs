@@ -13,6 +13,7 @@ mod http;
 mod manager;
 mod openapi;
 mod server;
+mod session_end; // issue 14
 mod smoke;
 mod technician;
 mod writers;

@@ -16,11 +16,26 @@ use tower_http::trace::TraceLayer;
 #[derive(Clone)]
 pub struct AppState {
     pub db: Db,
+    /// The address clients reach the server at (`--public-url`, `LOADHOLD_PUBLIC_URL`),
+    /// without a trailing slash; labels' QR codes use it, never the request's `Host` header.
+    pub public_url: Option<std::sync::Arc<str>>,
 }
 
 impl AppState {
     pub fn new(db: Db) -> Self {
-        AppState { db }
+        AppState {
+            db,
+            public_url: None,
+        }
+    }
+
+    /// Sets the public address (a trailing slash is dropped; empty means none).
+    pub fn with_public_url(mut self, url: Option<&str>) -> Self {
+        self.public_url = url
+            .map(|u| u.trim().trim_end_matches('/'))
+            .filter(|u| !u.is_empty())
+            .map(std::sync::Arc::from);
+        self
     }
 }
 

@@ -1,5 +1,7 @@
 //! One error type for the whole HTTP layer. API routes render it as JSON
-//! `{"error": {"code", "message", "field"}}`; internal causes are logged, never sent.
+//! `{"error": {"code", "message", "field"}, "errors": [{"code", "message", "field"}, ...]}`:
+//! `errors` lists every problem found (one for most errors), `error` is the first of them.
+//! Internal causes are logged, never sent.
 
 use axum::Json;
 use axum::http::{StatusCode, header};
@@ -38,6 +40,10 @@ pub enum AppError {
     },
     #[error("internal error: {0}")]
     Internal(String),
+    /// Every problem found in one request, in field order (never empty; made by
+    /// `AppError::several`). Status and `error` are those of the first.
+    #[error("{}", .0.first().map(ToString::to_string).unwrap_or_default())]
+    Several(Vec<AppError>),
 }
 
 impl AppError {
@@ -77,8 +83,28 @@ impl AppError {
         AppError::Internal(cause.to_string())
     }
 
+    /// Every problem as one error: the single one itself, or `Several` (none: a 400).
+    pub fn several(mut problems: Vec<AppError>) -> Self {
+        match problems.len() {
+            0 => AppError::bad_request("invalid", "the request could not be read"),
+            1 => problems.remove(0),
+            _ => AppError::Several(problems),
+        }
+    }
+
+    /// The problems one by one (a single error is a list of one).
+    pub fn problems(&self) -> Vec<&AppError> {
+        match self {
+            AppError::Several(list) => list.iter().flat_map(AppError::problems).collect(),
+            other => vec![other],
+        }
+    }
+
     pub fn status(&self) -> StatusCode {
         match self {
+            AppError::Several(list) => list
+                .first()
+                .map_or(StatusCode::UNPROCESSABLE_ENTITY, AppError::status),
             AppError::Invalid { status, .. } => *status,
             AppError::NotFound(_) => StatusCode::NOT_FOUND,
             AppError::Conflict { .. } => StatusCode::CONFLICT,
@@ -101,6 +127,10 @@ impl AppError {
     /// `(code, message, field)` as sent to the client.
     pub fn parts(&self) -> (&'static str, String, Option<String>) {
         match self {
+            AppError::Several(list) => list.first().map_or_else(
+                || ("invalid", "the request could not be read".into(), None),
+                AppError::parts,
+            ),
             AppError::Invalid {
                 code,
                 field,
@@ -154,8 +184,15 @@ impl IntoResponse for AppError {
         }
         let status = self.status();
         let retry = self.retry_after();
-        let (code, message, field) = self.parts();
-        let body = json!({"error": {"code": code, "message": message, "field": field}});
+        let problem = |(code, message, field): (&str, String, Option<String>)| {
+            json!({"code": code, "message": message, "field": field})
+        };
+        let errors: Vec<_> = self
+            .problems()
+            .into_iter()
+            .map(|e| problem(e.parts()))
+            .collect();
+        let body = json!({"error": problem(self.parts()), "errors": errors});
         let mut response = (status, Json(body)).into_response();
         if let Some(seconds) = retry {
             response

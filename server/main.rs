@@ -34,6 +34,10 @@ enum Command {
         /// Mark session cookies Secure (set this when clients reach the server over TLS).
         #[arg(long, env = "LOADHOLD_SECURE_COOKIES")]
         secure_cookies: bool,
+        /// The address tablets reach the server at, e.g. `https://loadhold.example.org`
+        /// (labels' QR codes point there).
+        #[arg(long, env = "LOADHOLD_PUBLIC_URL")]
+        public_url: Option<String>,
     },
     /// Load the demo fleet into a fresh database and serve it.
     Demo {
@@ -41,6 +45,9 @@ enum Command {
         db: PathBuf,
         #[arg(long, env = "LOADHOLD_ADDR", default_value = "127.0.0.1:8080")]
         addr: SocketAddr,
+        /// The address tablets reach the server at (labels' QR codes point there).
+        #[arg(long, env = "LOADHOLD_PUBLIC_URL")]
+        public_url: Option<String>,
     },
     /// Load the demo fleet (or a generated fleet of N machines) into a database.
     SeedDemo {
@@ -188,19 +195,24 @@ async fn run(command: Command) -> Result<(), String> {
             db,
             addr,
             secure_cookies,
+            public_url,
         } => {
             loadhold::auth::cookie::set_secure(secure_cookies);
             let pool = open(&db).await?;
-            serve(pool, addr, None).await
+            serve(pool, addr, None, public_url).await
         }
-        Command::Demo { db, addr } => {
+        Command::Demo {
+            db,
+            addr,
+            public_url,
+        } => {
             remove_database(&db)?;
             let pool = open(&db).await?;
             let report = loadhold::seed::load_demo(&pool)
                 .await
                 .map_err(|e| format!("cannot load the demo fleet: {e}"))?;
             let logins = loadhold::auth::demo::create_demo_users(&pool).await?;
-            serve(pool, addr, Some(format!("{report}\n{logins}"))).await
+            serve(pool, addr, Some(format!("{report}\n{logins}")), public_url).await
         }
         Command::SeedDemo { db, scale } => {
             let pool = open(&db).await?;
@@ -301,7 +313,12 @@ fn remove_database(path: &Path) -> Result<(), String> {
     Ok(())
 }
 
-async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result<(), String> {
+async fn serve(
+    pool: db::Db,
+    addr: SocketAddr,
+    banner: Option<String>,
+    public_url: Option<String>,
+) -> Result<(), String> {
     let listener = TcpListener::bind(addr)
         .await
         .map_err(|e| format!("cannot listen on {addr}: {e}"))?;
@@ -311,7 +328,8 @@ async fn serve(pool: db::Db, addr: SocketAddr, banner: Option<String>) -> Result
     }
     println!("Loadhold is serving at http://{local}/");
     tracing::info!(%local, "listening");
-    let router = app::app(app::AppState::new(pool.clone()));
+    let state = app::AppState::new(pool.clone()).with_public_url(public_url.as_deref());
+    let router = app::app(state);
     loadhold::serve::run(listener, router, shutdown_signal()).await;
     pool.close().await;
     tracing::info!("stopped");

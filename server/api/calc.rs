@@ -1,5 +1,6 @@
 //! `/api/v1/calc/*`: the engineering core over JSON. No login needed; nothing is stored.
 
+use super::calc_check::{self, Readings};
 use super::calc_input::{
     self, CYLINDER_FIELDS, DECAY_FIELDS, DRIFT_FIELDS, allowed, calc_error, parse_cylinder_request,
 };
@@ -25,6 +26,7 @@ async fn cylinder(Body(map): Body) -> ApiResult<Response> {
     let f = Fields::new(&map);
     f.deny_unknown(CYLINDER_FIELDS)?;
     let units = f.units()?;
+    calc_check::check(&f, Readings::None)?;
     let input = parse_cylinder_request(&f)?;
     let report = analysis::analyse(&input, units).map_err(calc_error)?;
     Ok(Json(calc_input::cylinder_response(&input, &report, units)).into_response())
@@ -35,6 +37,7 @@ async fn drift_test(Body(map): Body) -> ApiResult<Json<Value>> {
     let f = Fields::new(&map);
     f.deny_unknown(&allowed(CYLINDER_FIELDS, DRIFT_FIELDS))?;
     let units = f.units()?;
+    calc_check::check(&f, Readings::Drift)?;
     let input = parse_cylinder_request(&f)?;
     let readings = calc_input::parse_drift_readings(&f)?;
     let report = drift::analyse_drift(&input, &readings, units).map_err(calc_error)?;
@@ -57,6 +60,7 @@ async fn pressure_decay(Body(mut map): Body) -> ApiResult<Json<Value>> {
     let f = Fields::new(&map);
     f.deny_unknown(&allowed(CYLINDER_FIELDS, DECAY_FIELDS))?;
     let units = f.units()?;
+    calc_check::check(&f, Readings::Decay)?;
     let input = parse_cylinder_request(&f)?;
     let readings = calc_input::parse_decay_readings(&f)?;
     let report = decay::analyse_decay(&input, &readings, units).map_err(calc_error)?;

@@ -47,13 +47,10 @@ impl Problems {
     }
 }
 
-/// The first problem, for the JSON API (which names one field per answer).
-pub fn first(mut problems: Vec<AppError>) -> AppError {
-    if problems.is_empty() {
-        AppError::bad_request("invalid", "the record could not be read")
-    } else {
-        problems.remove(0)
-    }
+/// Every problem as one error for the JSON API: `error` names the first, `errors` lists all
+/// (`AppError::several`). The name is kept from when only the first was sent.
+pub fn first(problems: Vec<AppError>) -> AppError {
+    AppError::several(problems)
 }
 
 /// True when the object has the key, even with `null` (which clears an optional field).

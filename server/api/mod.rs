@@ -11,6 +11,7 @@ pub mod openapi; // proof
 
 // calc
 pub mod calc;
+pub mod calc_check;
 pub mod calc_input;
 pub mod calc_output;
 pub mod calc_valves;

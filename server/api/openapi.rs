@@ -299,6 +299,19 @@ pub fn document() -> OpenApi {
         .build()
 }
 
+/// One problem: `{code, message, field}`.
+fn problem() -> S {
+    use dsl::*;
+    object(
+        vec![
+            ("code", required_text(80)),
+            ("message", required_text(4000)),
+            ("field", nullable(string())),
+        ],
+        &["code", "message", "field"],
+    )
+}
+
 /// Named schemas shared by several operations.
 fn schemas() -> Vec<(&'static str, S)> {
     use dsl::*;
@@ -306,18 +319,12 @@ fn schemas() -> Vec<(&'static str, S)> {
         (
             "Error",
             object(
-                vec![(
-                    "error",
-                    object(
-                        vec![
-                            ("code", required_text(80)),
-                            ("message", required_text(4000)),
-                            ("field", nullable(string())),
-                        ],
-                        &["code", "message", "field"],
-                    ),
-                )],
-                &["error"],
+                vec![
+                    ("error", problem()),
+                    // Every problem found (the first is `error`), so a form can mark each field.
+                    ("errors", array(problem())),
+                ],
+                &["error", "errors"],
             ),
         ),
         (

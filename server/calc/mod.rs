@@ -29,6 +29,7 @@ pub mod limits;
 pub mod other_end;
 pub mod ratings;
 pub mod settle;
+pub mod spelling;
 pub mod strength;
 pub mod trend;
 pub mod valve_words;

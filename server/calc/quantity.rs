@@ -3,8 +3,11 @@
 //!
 //! Conversion factors are exact where the definition is exact: inch = 0.0254 m and
 //! pound-force = 0.45359237 kg x 9.80665 m/s² (NIST SP 811), US gallon = 231 in³
-//! (NIST Handbook 44, Appendix C), bar = 1e5 Pa (ISO 80000-4).
+//! (NIST Handbook 44, Appendix C), bar = 1e5 Pa (ISO 80000-4), kilogram-force = 1 kg x
+//! 9.80665 m/s² (NIST SP 811). What people type is read by `calc::spelling` (decimal comma,
+//! digit grouping, unit spellings such as `lbs`, `inch`, `°C`, `lpm`, one table).
 
+use super::spelling::{self, STANDARD_GRAVITY, Spelling};
 use serde::{Deserialize, Serialize};
 use std::fmt;
 
@@ -133,6 +136,9 @@ pub const UNITS: &[Unit] = &[
     u("kN", D::Force, 1e3),
     u("lbf", D::Force, LBF),
     u("kip", D::Force, 1e3 * LBF),
+    // The weight of a kilogram and of a tonne (1000 kg) under standard gravity.
+    u("kgf", D::Force, STANDARD_GRAVITY),
+    u("t", D::Force, 1e3 * STANDARD_GRAVITY),
     u("Pa", D::Pressure, 1.0),
     u("kPa", D::Pressure, 1e3),
     u("MPa", D::Pressure, 1e6),
@@ -209,15 +215,21 @@ pub fn accepted_units(dimension: Dimension) -> Vec<&'static str> {
 }
 
 /// Writes the spellings people use for the same unit in one form (`°C` -> `degC`,
-/// `in²` -> `in2`, `l/min` -> `L/min`, `psig` is not accepted: gauge is implied).
-fn canonical(symbol: &str) -> String {
+/// `in²` -> `in2`, `l/min` -> `L/min`); the spellings table (`calc::spelling::SPELLINGS`)
+/// is read before these general rules.
+fn canonical(symbol: &str, dimension: Dimension) -> Result<String, QuantityError> {
+    match spelling::lookup(symbol.trim(), dimension) {
+        Some(Spelling::Unit(symbol)) => return Ok(symbol.into()),
+        Some(Spelling::Refused(why)) => return Err(err(why.into())),
+        None => {}
+    }
     let mut s = symbol
         .trim()
         .replace('°', "deg")
         .replace('²', "2")
         .replace('³', "3");
     s = s.replace("^2", "2").replace("^3", "3");
-    match s.as_str() {
+    Ok(match s.as_str() {
         "l" => "L".into(),
         "ml" => "mL".into(),
         "l/min" | "lpm" => "L/min".into(),
@@ -227,12 +239,12 @@ fn canonical(symbol: &str) -> String {
         "sec" => "s".into(),
         "hr" => "h".into(),
         _ => s,
-    }
+    })
 }
 
 /// Looks up a unit symbol for a dimension.
 pub fn find_unit(symbol: &str, dimension: Dimension) -> Result<&'static Unit, QuantityError> {
-    let symbol = canonical(symbol);
+    let symbol = canonical(symbol, dimension)?;
     if let Some(unit) = UNITS
         .iter()
         .find(|unit| unit.symbol == symbol && unit.dimension == dimension)
@@ -277,41 +289,27 @@ pub fn to_si(value: f64, unit: &str, dimension: Dimension) -> Result<f64, Quanti
     Ok(si)
 }
 
-/// Parses `"<number> <unit>"` (the space is optional: `"4in"` is read as 4 in) into SI.
+/// Parses `"<number> <unit>"` (the space is optional: `"4in"` is read as 4 in) into SI. The
+/// number may use a decimal comma or digit grouping where only one reading fits
+/// (`calc::spelling::read_number`); the unit may be any spelling of `calc::spelling::SPELLINGS`.
 pub fn parse_str(text: &str, dimension: Dimension) -> Result<f64, QuantityError> {
     let text = text.trim();
-    let split = text
-        .char_indices()
-        .find(|&(i, c)| {
-            !(c.is_ascii_digit()
-                || c == '.'
-                || c == '+'
-                || c == '-'
-                || ((c == 'e' || c == 'E')
-                    && text[i + 1..]
-                        .starts_with(|n: char| n.is_ascii_digit() || n == '-' || n == '+')
-                    && i > 0))
-        })
-        .map(|(i, _)| i)
-        .unwrap_or(text.len());
-    let (number, unit) = text.split_at(split);
+    let (number, unit) = spelling::split(text);
     let unit = unit.trim();
     if number.is_empty() {
         return Err(err(format!(
-            "expected a number and a unit such as {}, got \"{text}\"",
+            "type a number and a unit such as {}; \"{text}\" has no number",
             example(dimension)
         )));
     }
     if unit.is_empty() {
         return Err(err(format!(
-            "a unit is required: write {} (accepted units: {})",
+            "a unit is required: type {} (accepted units: {})",
             example(dimension),
             accepted_units(dimension).join(", ")
         )));
     }
-    let value: f64 = number
-        .parse()
-        .map_err(|_| err(format!("\"{number}\" is not a number")))?;
+    let value = spelling::read_number(&number).map_err(err)?;
     to_si(value, unit, dimension)
 }
 

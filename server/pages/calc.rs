@@ -5,6 +5,7 @@
 use super::calc_fields::{self, FieldView};
 use super::calc_view::{self, CylinderView, DecayView, DriftView};
 use super::ctx::PageCtx;
+use crate::api::calc_check::{self, Readings};
 use crate::api::calc_input::{self, calc_error};
 use crate::api::input::Fields;
 use crate::app::AppState;
@@ -39,8 +40,11 @@ pub struct CalcPage {
     pub rating_fields: Vec<FieldView>,
     pub drift_fields: Vec<FieldView>,
     pub decay_fields: Vec<FieldView>,
-    /// The refused field and why, shown at the top and beside the field.
+    /// The first refused field and why (kept for the page's other uses).
     pub error: Option<(String, String)>,
+    /// Every refused field: (label, message, input id), listed at the top linking to each
+    /// input, and each shown beside its field.
+    pub errors: Vec<(String, String, String)>,
     pub cylinder: Option<CylinderView>,
     pub drift: Option<DriftView>,
     pub decay: Option<DecayView>,
@@ -123,6 +127,7 @@ async fn page(ctx: PageCtx, Query(pairs): Query<Vec<(String, String)>>) -> Respo
         drift_fields: calc_fields::fields(calc_fields::DRIFT, &value, units),
         decay_fields: calc_fields::fields(calc_fields::DECAY, &value, units),
         error: None,
+        errors: Vec::new(),
         cylinder: None,
         drift: None,
         decay: None,
@@ -132,28 +137,36 @@ async fn page(ctx: PageCtx, Query(pairs): Query<Vec<(String, String)>>) -> Respo
     }
     match compute(&mut page, &main, &decay_map, units) {
         Ok(()) => page.into_response(),
-        Err((prefix, error)) => {
-            let status = error.status();
-            let (_, message, field) = error.parts();
-            let field = format!("{prefix}{}", field.unwrap_or_default());
-            for f in page
-                .cylinder_fields
-                .iter_mut()
-                .chain(page.option_fields.iter_mut())
-                .chain(page.rating_fields.iter_mut())
-                .chain(page.drift_fields.iter_mut())
-                .chain(page.decay_fields.iter_mut())
+        Err(refusals) => {
+            let mut status = StatusCode::UNPROCESSABLE_ENTITY;
+            for (prefix, error) in refusals
+                .iter()
+                .flat_map(|(p, e)| e.problems().into_iter().map(move |one| (*p, one)))
             {
-                if f.name == field {
-                    f.error = message.clone();
+                if error.status().is_client_error() && page.errors.is_empty() {
+                    status = error.status();
                 }
+                let (_, message, field) = error.parts();
+                let field = format!("{prefix}{}", field.unwrap_or_default());
+                let mut anchor = String::new();
+                for f in page
+                    .cylinder_fields
+                    .iter_mut()
+                    .chain(page.option_fields.iter_mut())
+                    .chain(page.rating_fields.iter_mut())
+                    .chain(page.drift_fields.iter_mut())
+                    .chain(page.decay_fields.iter_mut())
+                {
+                    if f.name == field && f.error.is_empty() {
+                        f.error = message.clone();
+                        anchor = format!("c-{field}");
+                    }
+                }
+                let label = calc_fields::label_of(&field);
+                page.error
+                    .get_or_insert_with(|| (label.clone(), message.clone()));
+                page.errors.push((label, message, anchor));
             }
-            page.error = Some((calc_fields::label_of(&field), message));
-            let status = if status.is_client_error() {
-                status
-            } else {
-                StatusCode::UNPROCESSABLE_ENTITY
-            };
             (status, page).into_response()
         }
     }
@@ -166,21 +179,49 @@ fn compute(
     main: &Map<String, Value>,
     decay_map: &Map<String, Value>,
     units: UnitSystem,
-) -> Result<(), (&'static str, AppError)> {
+) -> Result<(), Vec<(&'static str, AppError)>> {
     let f = Fields::new(main);
-    let input = calc_input::parse_cylinder_request(&f).map_err(|e| ("", e))?;
-    let report = analysis::analyse(&input, units).map_err(|e| ("", calc_error(e)))?;
+    let d = Fields::new(decay_map);
+    let with_drift = has_any(main, calc_input::DRIFT_FIELDS);
+    let with_decay = decay_map.keys().any(|k| k != "pressurised_end");
+    // Every field on its own first, so that every bad field is marked at once.
+    let readings = if with_drift {
+        Readings::Drift
+    } else {
+        Readings::None
+    };
+    let mut found: Vec<(&'static str, AppError)> = calc_check::problems(&f, readings)
+        .into_iter()
+        .map(|e| ("", e))
+        .collect();
+    if with_decay {
+        let decay_only = calc_check::problems(&d, Readings::Decay)
+            .into_iter()
+            .filter(|e| {
+                // The cylinder fields live in the main object; only the readings are here.
+                let field = e.parts().2.unwrap_or_default();
+                calc_input::DECAY_FIELDS.contains(&field.as_str())
+            })
+            .map(|e| ("decay.", e));
+        found.extend(decay_only);
+    }
+    if !found.is_empty() {
+        return Err(found);
+    }
+    let one = |prefix: &'static str, e: AppError| vec![(prefix, e)];
+    let input = calc_input::parse_cylinder_request(&f).map_err(|e| one("", e))?;
+    let report = analysis::analyse(&input, units).map_err(|e| one("", calc_error(e)))?;
     page.cylinder = Some(calc_view::cylinder(&input, &report, units));
-    if has_any(main, calc_input::DRIFT_FIELDS) {
-        let readings = calc_input::parse_drift_readings(&f).map_err(|e| ("", e))?;
-        let r = drift::analyse_drift(&input, &readings, units).map_err(|e| ("", calc_error(e)))?;
+    if with_drift {
+        let readings = calc_input::parse_drift_readings(&f).map_err(|e| one("", e))?;
+        let r =
+            drift::analyse_drift(&input, &readings, units).map_err(|e| one("", calc_error(e)))?;
         page.drift = Some(calc_view::drift(&r, units));
     }
-    if decay_map.keys().any(|k| k != "pressurised_end") {
-        let d = Fields::new(decay_map);
-        let readings = calc_input::parse_decay_readings(&d).map_err(|e| ("decay.", e))?;
+    if with_decay {
+        let readings = calc_input::parse_decay_readings(&d).map_err(|e| one("decay.", e))?;
         let r = decay::analyse_decay(&input, &readings, units)
-            .map_err(|e| ("decay.", calc_error(e)))?;
+            .map_err(|e| one("decay.", calc_error(e)))?;
         page.decay = Some(calc_view::decay(&r, units));
     }
     Ok(())

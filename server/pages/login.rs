@@ -68,11 +68,31 @@ pub fn safe_next(next: &str) -> String {
     }
 }
 
+/// `next` as asked (made safe), or empty when none was asked: then the start page follows
+/// the role ([`landing`]).
+fn asked_next(next: &str) -> String {
+    if next.trim().is_empty() {
+        String::new()
+    } else {
+        safe_next(next)
+    }
+}
+
+/// Where a login with no `next` lands: a technician on the shop, everyone else on the start
+/// page.
+pub fn landing(role: &str) -> &'static str {
+    if role == crate::auth::Role::Technician.as_str() {
+        "/shop"
+    } else {
+        "/"
+    }
+}
+
 async fn show(ctx: PageCtx, Query(query): Query<NextQuery>) -> LoginPage {
     LoginPage {
         ctx,
         username: String::new(),
-        next: safe_next(&query.next),
+        next: asked_next(&query.next),
         message: String::new(),
     }
 }
@@ -85,7 +105,7 @@ async fn submit(
     Form(form): Form<LoginForm>,
 ) -> Response {
     let address = client_address(&extensions);
-    let next = safe_next(&form.next);
+    let next = asked_next(&form.next);
     if !super::origin::same_origin(&headers) {
         tracing::warn!(%address, "cross-site login refused");
         let page = LoginPage {
@@ -124,7 +144,12 @@ async fn submit(
             }
             let max_age = sessions::LIFETIME.whole_seconds();
             let cookie = cookie::session(&session.token, max_age, cookie::secure());
-            let mut response = Redirect::to(&next).into_response();
+            let target = if next.is_empty() {
+                landing(&user.role).to_string()
+            } else {
+                next.clone()
+            };
+            let mut response = Redirect::to(&target).into_response();
             if let Ok(value) = HeaderValue::from_str(&cookie) {
                 response.headers_mut().insert(SET_COOKIE, value);
             }

@@ -44,8 +44,18 @@ impl FieldErrors {
     }
 
     /// Records an `AppError` under its field (or under `""` for a form-level error).
+    /// Adds each problem of `error` beside its field, in words: the API's option codes in a
+    /// choice's message (`pass_with_deficiencies`) are written as words on a page, where the
+    /// choice is made with a control, not typed.
     pub fn push_error(&mut self, error: &crate::error::AppError) {
-        let (_, message, field) = error.parts();
-        self.0.push((field.unwrap_or_default(), message));
+        for problem in error.problems() {
+            let (code, message, field) = problem.parts();
+            let message = if matches!(code, "invalid_choice" | "required") {
+                message.replace('_', " ")
+            } else {
+                message
+            };
+            self.0.push((field.unwrap_or_default(), message));
+        }
     }
 }

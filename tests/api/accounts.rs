@@ -144,7 +144,8 @@ async fn next_is_followed_only_to_local_paths() {
         ("https://evil.example/", "/"),
         ("/\\evil.example", "/"),
         ("/login", "/"),
-        ("", "/"),
+        // No `next`: a technician starts on the shop (issue 14).
+        ("", "/shop"),
         ("/reports/due?site=2", "/reports/due?site=2"),
     ] {
         let (status, headers, _) = app

@@ -133,7 +133,8 @@ impl TestApp {
         let db = loadhold::db::open(&dir.join("test.sqlite"))
             .await
             .expect("open db");
-        let router = app(AppState::new(db.clone()));
+        // Labels' QR codes point at the configured public address (issue 14).
+        let router = app(AppState::new(db.clone()).with_public_url(Some("https://loadhold.test/")));
         TestApp {
             db,
             router,

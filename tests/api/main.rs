@@ -3,6 +3,7 @@
 pub mod access; // accounts
 pub mod accounts; // accounts
 pub mod accounts_cli; // accounts
+mod all_problems; // issue 14: every problem at once
 mod audit; // accounts
 mod calc;
 mod calc_errors;
@@ -29,7 +30,8 @@ mod drift_tests;
 mod inspections;
 mod safety_sources;
 mod service_status;
+mod shop_first;
 mod shop_history;
-mod shop_pages;
+mod shop_pages; // issue 14
 // reports
 mod reports;

@@ -18,6 +18,7 @@ mod heating;
 mod properties;
 mod strength;
 mod stroke_ends;
+mod typed;
 mod units;
 mod valves;
 mod walls;

@@ -130,6 +130,9 @@ fn uom_si(symbol: &str, dimension: Dimension) -> Option<f64> {
         (D::Force, "N") => q::Force::new::<force::newton>(1.0).value,
         (D::Force, "kN") => q::Force::new::<force::kilonewton>(1.0).value,
         (D::Force, "lbf") => q::Force::new::<force::pound_force>(1.0).value,
+        (D::Force, "kgf") => q::Force::new::<force::kilogram_force>(1.0).value,
+        // A tonne's weight: 1000 kgf.
+        (D::Force, "t") => q::Force::new::<force::kilogram_force>(1000.0).value,
         (D::Force, "kip") => q::Force::new::<force::kip>(1.0).value,
         (D::Pressure, "Pa") => q::Pressure::new::<pressure::pascal>(1.0).value,
         (D::Pressure, "kPa") => q::Pressure::new::<pressure::kilopascal>(1.0).value,

@@ -5,6 +5,7 @@
 mod backup;
 mod browser;
 mod crash;
+mod fit_screens; // issue 14
 mod fixture;
 mod form_errors;
 mod hardening;
@@ -13,6 +14,7 @@ mod manager;
 mod openapi;
 mod safety_loop;
 mod server;
+mod session_end; // issue 14
 mod smoke;
 mod technician;
 mod writers;

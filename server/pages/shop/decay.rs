@@ -144,7 +144,11 @@ fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) -> Dec
     let mut limit = Fields::new(values, errors, units);
     if c.procedure_id.is_none() {
         limit.quantity("limit_pressure", "Allowed pressure drop", D::Pressure);
-        limit.quantity("limit_per", "in", D::Time);
+        limit.quantity(
+            "limit_per",
+            "Per how long (the time the allowed drop is for)",
+            D::Time,
+        );
     }
     let mut who = Fields::new(values, errors, units);
     who.text("technician", "Technician (signs the record)")

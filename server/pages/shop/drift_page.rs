@@ -207,7 +207,11 @@ pub fn page(ctx: PageCtx, c: &Context, values: &Values, errors: &FieldErrors) ->
     let mut limit = Fields::new(values, errors, units);
     if c.procedure_id.is_none() {
         limit.quantity("limit_distance", "Allowed drift", D::Length);
-        limit.quantity("limit_per", "in", D::Time);
+        limit.quantity(
+            "limit_per",
+            "Per how long (the time the allowed drift is for)",
+            D::Time,
+        );
     }
     let mut notes = Fields::new(values, errors, units);
     notes.textarea("notes", "Notes");

@@ -303,7 +303,8 @@ pub fn summary_lines(errors: &FieldErrors) -> Vec<String> {
         .collect()
 }
 
-/// Names the form's inputs in errors about the API's nested fields (`limit.per`).
+/// Names the form's inputs in errors about the API's nested fields (`limit.per`). A missing
+/// quantity is asked for as the form takes it: a number, its unit picked beside it.
 pub fn form_field(error: AppError) -> AppError {
     match error {
         AppError::Invalid {
@@ -318,7 +319,11 @@ pub fn form_field(error: AppError) -> AppError {
                 f.replace("limit.distance", "limit_distance")
                     .replace("limit.per", "limit_per")
             }),
-            message,
+            message: if code == "required" && message.contains(" such as ") {
+                "type the number here and pick its unit beside it".to_string()
+            } else {
+                message
+            },
         },
         other => other,
     }

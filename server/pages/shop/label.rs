@@ -13,8 +13,6 @@ use crate::pages::view::q;
 use askama::Template;
 use askama_web::WebTemplate;
 use axum::extract::{Path, State};
-use axum::http::HeaderMap;
-use axum::http::header::HOST;
 use axum::response::{IntoResponse, Response};
 
 #[derive(Template, WebTemplate)]
@@ -27,27 +25,27 @@ pub struct LabelPage {
     pub lines: Vec<String>,
     pub address: String,
     pub qr: Option<QrSvg>,
+    /// False when no public address is configured (then no QR code, and a note says why).
+    pub configured: bool,
     pub back: String,
 }
 
-/// The address the request came to (`http://host:port`), from the `Host` header (refused for
-/// anything but a host name, IPv4/IPv6 address and port) and `X-Forwarded-Proto`.
-pub fn base_url(headers: &HeaderMap) -> String {
-    let host = headers
-        .get(HOST)
-        .and_then(|h| h.to_str().ok())
-        .filter(|h| {
-            !h.is_empty()
-                && h.len() <= 255
-                && h.chars()
-                    .all(|c| c.is_ascii_alphanumeric() || matches!(c, '.' | '-' | ':' | '[' | ']'))
-        })
-        .unwrap_or("localhost");
-    let https = headers
-        .get("x-forwarded-proto")
-        .and_then(|h| h.to_str().ok())
-        .is_some_and(|p| p.eq_ignore_ascii_case("https"));
-    format!("{}://{host}", if https { "https" } else { "http" })
+/// The absolute address of a record page (`path` starts with `/`) at the configured public
+/// address, or `None` when none is configured: the request's `Host` header is never used (a
+/// label printed from `localhost` or a spoofed host would send every scan elsewhere).
+pub fn record_address(public_url: Option<&str>, path: &str) -> Option<String> {
+    public_url.map(|base| format!("{base}{path}"))
+}
+
+/// The label's address line and QR code for a record page.
+fn address_and_code(state: &AppState, path: &str) -> (String, Option<QrSvg>) {
+    match record_address(state.public_url.as_deref(), path) {
+        Some(address) => {
+            let code = qr::encode(&address);
+            (address, code)
+        }
+        None => (path.to_string(), None),
+    }
 }
 
 fn sizes(bore: f64, rod: f64, stroke: f64, units: UnitSystem) -> Vec<String> {
@@ -64,14 +62,13 @@ fn sizes(bore: f64, rod: f64, stroke: f64, units: UnitSystem) -> Vec<String> {
 pub async fn machine(
     State(state): State<AppState>,
     ctx: PageCtx,
-    headers: HeaderMap,
     Path(id): Path<String>,
 ) -> Response {
     let m = match load_machine(&state, &id).await {
         Ok(m) => m,
         Err(page) => return page,
     };
-    let address = format!("{}/machines/{}", base_url(&headers), m.id);
+    let (address, code) = address_and_code(&state, &format!("/machines/{}", m.id));
     let mut lines = Vec::new();
     if let Some(d) = &m.description {
         lines.push(d.clone());
@@ -87,7 +84,8 @@ pub async fn machine(
         unit_number: m.unit_number.clone(),
         heading: m.kind.clone(),
         lines,
-        qr: qr::encode(&address),
+        qr: code,
+        configured: state.public_url.is_some(),
         address,
         back: format!("/machines/{}", m.id),
     }
@@ -98,7 +96,6 @@ pub async fn machine(
 pub async fn cylinder(
     State(state): State<AppState>,
     ctx: PageCtx,
-    headers: HeaderMap,
     Path(id): Path<String>,
 ) -> Response {
     let (c, _) = match load_cylinder(&state, &id).await {
@@ -106,7 +103,7 @@ pub async fn cylinder(
         Err(page) => return page,
     };
     let units = pick_units(None, c.site_units.as_deref());
-    let address = format!("{}/cylinders/{}", base_url(&headers), c.id);
+    let (address, code) = address_and_code(&state, &format!("/cylinders/{}", c.id));
     let mut lines = sizes(c.bore_m, c.rod_m, c.stroke_m, units);
     lines.push(format!("Load {}", direction_words(&c.load_direction)));
     if let Some(s) = &c.serial {
@@ -117,7 +114,8 @@ pub async fn cylinder(
         unit_number: c.unit_number.clone(),
         heading: function_text(&c),
         lines,
-        qr: qr::encode(&address),
+        qr: code,
+        configured: state.public_url.is_some(),
         address,
         back: format!("/cylinders/{}", c.id),
     }

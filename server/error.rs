@@ -184,9 +184,7 @@ impl IntoResponse for AppError {
         }
         let status = self.status();
         let retry = self.retry_after();
-        let problem = |(code, message, field): (&str, String, Option<String>)| {
-            json!({"code": code, "message": message, "field": field})
-        };
+        let problem = |(code, message, field): (&str, String, Option<String>)| json!({"code": code, "message": message, "field": field});
         let errors: Vec<_> = self
             .problems()
             .into_iter()

@@ -173,7 +173,16 @@ pub fn schemas() -> Vec<(&'static str, S)> {
                         "record",
                         object(
                             vec![
-                                ("type", words(&["inspection", "drift_test", "decay_test", "registry_change", "unknown"])),
+                                (
+                                    "type",
+                                    words(&[
+                                        "inspection",
+                                        "drift_test",
+                                        "decay_test",
+                                        "registry_change",
+                                        "unknown",
+                                    ]),
+                                ),
                                 ("id", oint()),
                             ],
                             &["type", "id"],

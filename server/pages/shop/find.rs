@@ -55,8 +55,9 @@ pub async fn index(
     Query(search): Query<Search>,
 ) -> Response {
     let q = search.q.unwrap_or_default().trim().to_string();
+    // On the shop an underscore is a separator typed for a dash, not a pattern character.
     let filter = MachineFilter {
-        q: (!q.is_empty()).then(|| q.clone()),
+        q: (!q.is_empty()).then(|| q.replace('_', " ")),
         ..MachineFilter::default()
     };
     let window = Window {

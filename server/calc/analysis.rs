@@ -133,7 +133,12 @@ pub fn analyse(input: &CylinderInput, units: UnitSystem) -> Result<CylinderRepor
         load,
     ));
     if let Some(w) = warming {
-        scenarios.push(Scenario::at(SEAL_BYPASS_WARMING, w.pressure, w.pressure, load));
+        scenarios.push(Scenario::at(
+            SEAL_BYPASS_WARMING,
+            w.pressure,
+            w.pressure,
+            load,
+        ));
     }
     // Worst load, stated: the same scenarios at the lightest load of the range; each end
     // keeps its higher figure and the load that gave it (worst_load.rs).

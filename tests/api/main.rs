@@ -16,6 +16,7 @@ mod worst_load; // issue 12: load range, relief setting, unrated ends
 // registry
 mod cylinders;
 mod demo;
+mod hose_ratings;
 mod hoses;
 mod machine_lists;
 mod machines;

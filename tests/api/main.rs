@@ -18,6 +18,7 @@ mod cylinders;
 mod demo;
 mod hose_ratings;
 mod hoses;
+mod import_read;
 mod machine_lists;
 mod machines;
 mod registry_fixtures;

@@ -12,6 +12,7 @@ pub mod audit;
 pub mod cylinder_valves;
 pub mod cylinders;
 pub mod hoses;
+pub mod import_lookup;
 pub mod machines;
 pub mod page;
 pub mod sites;

@@ -19,6 +19,7 @@ mod demo;
 mod hose_ratings;
 mod hoses;
 mod import_read;
+mod import_registry;
 mod machine_lists;
 mod machines;
 mod registry_fixtures;

@@ -10,6 +10,7 @@ pub mod auth;
 pub mod calc;
 pub mod db;
 pub mod error;
+pub mod import;
 pub mod log_format;
 pub mod pages;
 pub mod seed;

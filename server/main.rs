@@ -72,6 +72,22 @@ enum Command {
         #[command(subcommand)]
         command: TokenCommand,
     },
+    /// Import sites and machines from CSV files (kind from the headers or --kind).
+    Import {
+        #[arg(long, env = "LOADHOLD_DB")]
+        db: PathBuf,
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Check and report only; store nothing.
+        #[arg(long)]
+        dry_run: bool,
+        /// sites or machines (default: from the headers).
+        #[arg(long)]
+        kind: Option<String>,
+        /// Store the good rows and report the bad ones (default: a file with a bad row stores nothing).
+        #[arg(long)]
+        skip_bad_rows: bool,
+    },
     /// Write a consistent copy of a live database to OUT.
     Backup {
         #[arg(long, env = "LOADHOLD_DB")]
@@ -213,6 +229,20 @@ async fn run(command: Command) -> Result<(), String> {
                 .map_err(|e| format!("cannot load the demo fleet: {e}"))?;
             let logins = loadhold::auth::demo::create_demo_users(&pool).await?;
             serve(pool, addr, Some(format!("{report}\n{logins}")), public_url).await
+        }
+        Command::Import {
+            db,
+            files,
+            dry_run,
+            kind,
+            skip_bad_rows,
+        } => {
+            let pool = open_existing(&db).await?;
+            let options = loadhold::import::registry::Options {
+                dry_run,
+                skip_bad_rows,
+            };
+            loadhold::import::run_cli(&pool, &files, kind.as_deref(), options).await
         }
         Command::SeedDemo { db, scale } => {
             let pool = open(&db).await?;

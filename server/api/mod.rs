@@ -25,6 +25,7 @@ pub mod cylinders;
 pub mod draft;
 pub mod errors;
 pub mod hose_draft;
+pub mod hose_ratings;
 pub mod hoses;
 pub mod machine_draft;
 pub mod machines;
@@ -60,6 +61,7 @@ pub fn router() -> Router<AppState> {
         .merge(machines::router())
         .merge(cylinders::router())
         .merge(hoses::router())
+        .merge(hose_ratings::router())
         // shop
         .merge(drift_tests::router())
         .merge(decay_tests::router())

@@ -24,6 +24,7 @@ use utoipa::openapi::{
 mod calc;
 mod calc_schemas;
 pub mod dsl;
+mod onboarding;
 mod registry;
 mod registry_schemas;
 mod reports;
@@ -256,6 +257,7 @@ pub fn operations() -> Vec<Op> {
     ops.extend(shop::operations());
     ops.extend(reports::operations());
     ops.extend(service::operations());
+    ops.extend(onboarding::operations());
     ops
 }
 

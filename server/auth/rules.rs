@@ -81,6 +81,8 @@ static RULES: &[Rule] = &[
     role(Any, "/machines/*/return-to-service", Manager, RETURN),
     // Technicians: reading the due list (the shop's work list); other reports are managers'.
     role(Read, "/api/v1/reports/due", Technician, DUE),
+    // Technicians: the hose table (a default to confirm against the layline).
+    role(Read, "/api/v1/hose-ratings", Technician, READ),
     // Managers: reports.
     role(Any, "/reports", Manager, REPORTS),
     role(Any, "/api/v1/reports", Manager, REPORTS),

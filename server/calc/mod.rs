@@ -24,6 +24,7 @@ pub mod error;
 pub mod fluid;
 pub mod hazard_words;
 pub mod heating;
+pub mod hose_table;
 pub mod installed;
 pub mod limits;
 pub mod other_end;

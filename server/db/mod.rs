@@ -13,6 +13,7 @@ pub mod cylinder_valves;
 pub mod cylinders;
 pub mod health;
 pub mod hoses;
+pub mod import_lookup;
 pub mod installed;
 pub mod machines;
 pub mod names;

@@ -120,8 +120,9 @@ async fn form(
         units,
     )
     .hint = format!(
-        "Of the assembly: the lower of hose and fittings. {}",
-        forms::quantity_hint(Dimension::Pressure, units)
+        "Of the assembly: the lower of hose and fittings. {} {}",
+        forms::quantity_hint(Dimension::Pressure, units),
+        super::hose_suggestion::hint(values, units)
     );
     b.text(
         "made_in",

@@ -24,6 +24,7 @@ pub mod cylinder_page;
 pub mod cylinders;
 pub mod fleet;
 pub mod forms;
+pub mod hose_suggestion;
 pub mod hoses;
 pub mod machine_page;
 pub mod machines;

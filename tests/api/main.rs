@@ -17,7 +17,10 @@ mod worst_load; // issue 12: load range, relief setting, unrated ends
 // registry
 mod cylinders;
 mod demo;
+mod hose_ratings;
 mod hoses;
+mod import_read;
+mod import_registry;
 mod machine_lists;
 mod machines;
 mod registry_fixtures;

@@ -15,6 +15,7 @@ mod due;
 mod fluid;
 mod geometry;
 mod heating;
+mod hose_table;
 mod properties;
 mod strength;
 mod stroke_ends;

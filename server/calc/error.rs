@@ -39,10 +39,26 @@ pub fn in_range(field: &str, what: &str, value: f64, min: f64, max: f64) -> Resu
     if value < min || value > max {
         return Err(CalcError::new(
             field,
-            format!("{what} must lie between {min:e} and {max:e} in SI units, got {value:e}"),
+            format!(
+                "{what} must lie between {} and {} (SI units: m, N, Pa, K, s), got {}",
+                plain(min),
+                plain(max),
+                plain(value)
+            ),
         ));
     }
     Ok(value)
+}
+
+/// A number as people read it: `0`, `500`, `0.001`, and powers of ten (`1e12`) only for the
+/// very large or very small.
+fn plain(x: f64) -> String {
+    if x == 0.0 || (1e-3..1e7).contains(&x.abs()) {
+        let text = format!("{x:.6}");
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        format!("{x:e}")
+    }
 }
 
 /// Upper bound on any length the core accepts, m (a sanity limit, not physics).

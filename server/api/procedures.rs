@@ -82,6 +82,13 @@ fn limit_table(f: &Fields, kind: &str) -> Result<Vec<LimitRow>, AppError> {
         };
         row.deny_unknown(&["from", amount, "per"])?;
         let from = row.quantity("from", D::Temperature)?;
+        if from <= 0.0 {
+            return Err(AppError::field(
+                row.path("from"),
+                "out_of_range",
+                "an oil temperature lies above absolute zero (0 K, -273.15 degC)",
+            ));
+        }
         let value = row.quantity(amount, dimension)?;
         let per = super::draft::required_positive(&row, "per", D::Time)?;
         if rows

@@ -597,3 +597,29 @@ async fn drift_tests_for_two_databases_in_one_process_stay_in_their_own() {
         );
     }
 }
+
+#[tokio::test]
+async fn a_limit_table_row_at_or_below_absolute_zero_is_refused_naming_the_row() {
+    // 0 K is absolute zero (SI definition of the kelvin); no oil is there, and the stored
+    // table would break its own check. Found by the contract fuzzer as a 500.
+    let app = TestApp::new().await;
+    let (status, p) = app
+        .post_json(
+            "/api/v1/procedures",
+            &json!({"name": "Cold check", "machine_kind": "loader", "duration": "10 min",
+                    "limit": {"distance": "8 mm", "per": "10 min"}}),
+        )
+        .await;
+    assert_eq!(status, StatusCode::CREATED, "{p}");
+    let id = p["id"].as_i64().expect("id");
+    for from in ["0 K", "-300 degC"] {
+        let (status, body) = app
+            .patch_json(
+                &format!("/api/v1/procedures/{id}"),
+                &json!({"limit_table": [{"from": from, "distance": "0 m", "per": "1 h"}]}),
+            )
+            .await;
+        assert_eq!(status, StatusCode::UNPROCESSABLE_ENTITY, "{from}: {body}");
+        assert_eq!(body["error"]["field"], "limit_table[0].from", "{body}");
+    }
+}
